@@ -8,7 +8,7 @@ const config = {
 		adapter: adapter({ out: 'build' }),
 		// The origin check is done in hooks.server.ts instead, so that requests
 		// authenticated by an API token (no ambient credential) are exempt.
-		csrf: { trustedOrigins: [], checkOrigin: false }
+		csrf: { trustedOrigins: ['*'] }
 	}
 };
 

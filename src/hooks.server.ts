@@ -1,0 +1,67 @@
+import { json, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
+import { auth } from '$lib/server/auth';
+import * as apiTokens from '$lib/server/apiTokens';
+import { errorBody } from '$lib/server/api';
+import { db } from '$lib/server/db';
+import { startCatcher } from '$lib/server/mail';
+
+export const init: ServerInit = async () => {
+	await startCatcher();
+};
+
+const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
+const SIMPLE_BODY = /^(application\/x-www-form-urlencoded|multipart\/form-data|text\/plain)/i;
+
+export const handle: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.session = null;
+	event.locals.viaToken = false;
+	const isApi = event.url.pathname.startsWith('/api/');
+
+	const authz = event.request.headers.get('authorization');
+	if (authz?.toLowerCase().startsWith('bearer ')) {
+		const user = await apiTokens.authenticate(db(), authz.slice(7).trim());
+		if (!user) return json(errorBody(401, 'the API token is unknown or revoked', 'bad-token'), { status: 401 });
+		event.locals.user = { id: user.id, email: user.email, name: user.name };
+		event.locals.viaToken = true;
+	} else {
+		// Cross-site request forgery: a request riding on the session cookie must come
+		// from our own origin. Token-authenticated requests carry no ambient credential.
+		if (!SAFE.has(event.request.method)) {
+			const origin = event.request.headers.get('origin');
+			const type = event.request.headers.get('content-type') ?? '';
+			if ((origin && origin !== event.url.origin) || (!origin && SIMPLE_BODY.test(type))) {
+				const message = 'cross-site request refused (the Origin header does not match this server)';
+				return isApi ? json(errorBody(403, message, 'cross-site'), { status: 403 }) : new Response(message, { status: 403 });
+			}
+		}
+		const lucia = auth();
+		const sessionId = event.cookies.get(lucia.sessionCookieName);
+		if (sessionId) {
+			const { session, user } = await lucia.validateSession(sessionId);
+			if (session?.fresh) {
+				const c = lucia.createSessionCookie(session.id);
+				event.cookies.set(c.name, c.value, { path: '/', ...c.attributes });
+			}
+			if (!session) {
+				const c = lucia.createBlankSessionCookie();
+				event.cookies.set(c.name, c.value, { path: '/', ...c.attributes });
+			}
+			event.locals.user = user;
+			event.locals.session = session;
+		}
+	}
+
+	const response = await resolve(event);
+	response.headers.set('x-content-type-options', 'nosniff');
+	response.headers.set('referrer-policy', 'same-origin');
+	response.headers.set('x-frame-options', 'DENY');
+	response.headers.set('permissions-policy', 'camera=(), microphone=(), geolocation=()');
+	if (isApi) response.headers.set('cache-control', 'no-store');
+	return response;
+};
+
+export const handleError: HandleServerError = ({ error, status, message }) => {
+	if (status >= 500) console.error(error);
+	return { code: status === 404 ? 'not-found' : 'internal', message: status === 404 ? 'not found' : message };
+};

@@ -1,0 +1,65 @@
+import { error, isHttpError, json, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import { z } from 'zod';
+import { zodDetails } from '$lib/schemas';
+
+export type ErrorDetail = { row?: number; column?: string; field?: string; problem: string };
+
+const CODES: Record<number, string> = {
+	400: 'bad-request',
+	401: 'unauthenticated',
+	403: 'forbidden',
+	404: 'not-found',
+	409: 'conflict',
+	413: 'too-large',
+	422: 'invalid',
+	429: 'rate-limited',
+	500: 'internal',
+	503: 'unavailable'
+};
+
+/** Throw from anywhere (loads, actions, API routes): one error shape for all. */
+export function fail4xx(status: number, message: string, code = CODES[status] ?? 'error', details?: ErrorDetail[]): never {
+	error(status, { code, message, ...(details ? { details } : {}) } as App.Error);
+}
+
+export function errorBody(status: number, message: string, code?: string, details?: ErrorDetail[]) {
+	return { error: { code: code ?? CODES[status] ?? 'error', message, ...(details?.length ? { details } : {}) } };
+}
+
+/** Wrap an API handler: every thrown error becomes `{ error: { code, message, details? } }`. */
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+export function api<H extends RequestHandler<any, any>>(handler: H): H {
+	return (async (event: Parameters<H>[0]) => {
+		try {
+			return await handler(event);
+		} catch (e) {
+			if (isHttpError(e)) {
+				const body = e.body as App.Error & { details?: ErrorDetail[] };
+				return json(errorBody(e.status, body.message, body.code, body.details), { status: e.status });
+			}
+			if (e instanceof z.ZodError) return json(errorBody(422, 'the request is not valid', 'invalid', zodDetails(e)), { status: 422 });
+			console.error(e);
+			return json(errorBody(500, 'internal error'), { status: 500 });
+		}
+	}) as H;
+}
+
+/** Parse a JSON body against a schema; 400 for broken JSON, 422 naming each bad field. */
+export async function readJson<S extends z.ZodType>(event: RequestEvent, schema: S): Promise<z.output<S>> {
+	let body: unknown;
+	try {
+		body = await event.request.json();
+	} catch {
+		fail4xx(400, 'the request body is not valid JSON', 'bad-json');
+	}
+	const parsed = schema.safeParse(body);
+	if (!parsed.success) fail4xx(422, 'the request is not valid: ' + parsed.error.issues.map((i) => `${i.path.join('.') || 'body'}: ${i.message}`).join('; '), 'invalid', zodDetails(parsed.error));
+	return parsed.data;
+}
+
+/** Form data → plain object for a shared zod schema. */
+export function formObject(data: FormData): Record<string, string> {
+	const out: Record<string, string> = {};
+	for (const [k, v] of data) if (typeof v === 'string') out[k] = v;
+	return out;
+}

@@ -1,0 +1,34 @@
+import { DatasetError } from './DatasetError';
+
+export const MAX_FILE_BYTES = 20 * 1024 * 1024;
+export const MAX_ROWS = 1_000_000;
+export const MAX_COLUMNS = 32;
+
+const MB = 1024 * 1024;
+
+/** "21.3 MB", "20 MB" — binary megabytes, as file browsers show them. */
+export function formatMegabytes(bytes: number): string {
+	const mb = bytes / MB;
+	const text = Number.isInteger(mb) ? String(mb) : mb.toFixed(1);
+	return `${text} MB`;
+}
+
+export function formatCount(n: number): string {
+	return n.toLocaleString('en-US');
+}
+
+/** `size` undefined means "stopped reading past the limit, true size unknown". */
+export function fileTooLarge(size: number | undefined, max = MAX_FILE_BYTES): DatasetError {
+	const what = size === undefined ? `more than ${formatMegabytes(max)}` : formatMegabytes(size);
+	return new DatasetError('file-too-large', `file is ${what}; the limit is ${formatMegabytes(max)}`);
+}
+
+/** `count` undefined means "reading stopped past the limit". */
+export function tooManyRows(count: number | undefined, max = MAX_ROWS): DatasetError {
+	const what = count === undefined ? `more than ${formatCount(max)}` : formatCount(count);
+	return new DatasetError('too-many-rows', `table has ${what} rows; the limit is ${formatCount(max)} rows`);
+}
+
+export function tooManyColumns(count: number, max = MAX_COLUMNS): DatasetError {
+	return new DatasetError('too-many-columns', `table has ${count} columns; the limit is ${max} columns`);
+}

@@ -1,0 +1,218 @@
+import Papa from 'papaparse';
+import { buildTable, type RawRecord } from './buildTable';
+import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
+import { MAX_ROWS } from './limits';
+import type { ErrorDetail, ParsedTable } from './types';
+
+const CANDIDATES = [',', ';', '\t', '|'];
+// Rows read to guess the delimiter; enough to outvote a stray title line.
+const SNIFF_LINES = 100;
+// Header and units rows come on top of the data rows.
+const MAX_RECORDS = MAX_ROWS + 2;
+
+export interface DelimitedOptions {
+	/** use this delimiter instead of detecting one */
+	delimiter?: string;
+	/** what the file name promises: ',' for .csv, tab for .tsv */
+	expected?: string;
+	notes?: string[];
+	warnings?: string[];
+}
+
+/** CSV or TSV text → ParsedTable, through papaparse. */
+export function parseDelimited(text: string, options: DelimitedOptions = {}): ParsedTable {
+	const notes = options.notes ?? [];
+	const warnings = options.warnings ?? [];
+	if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+	if (text.trim() === '') throw new DatasetError('empty', 'the file is empty');
+
+	let delimiter = options.delimiter;
+	if (delimiter === undefined) {
+		const found = detectDelimiter(text, options.expected ?? ',');
+		delimiter = found ?? options.expected ?? ',';
+		if (found === null) notes.push('no delimiter was found, so the table has a single column');
+		else if (options.expected !== undefined && found !== options.expected) {
+			notes.push(`columns are separated by ${showDelimiter(found)}, not ${showDelimiter(options.expected)}`);
+		}
+	}
+
+	const records: RawRecord[] = [];
+	const blankRows: number[] = [];
+	const quoteProblems: ErrorDetail[] = [];
+	let recordNumber = 0;
+	let truncated = false;
+	Papa.parse<string[]>(text, {
+		delimiter,
+		step(result, parser) {
+			recordNumber++;
+			const cells = result.data;
+			for (const e of result.errors) {
+				if (e.type === 'Quotes') quoteProblems.push({ row: recordNumber, problem: quoteProblem(e.code) });
+			}
+			if (cells.every((c) => c.trim() === '')) {
+				blankRows.push(recordNumber);
+				return;
+			}
+			records.push({ row: recordNumber, cells });
+			if (records.length > MAX_RECORDS) {
+				truncated = true;
+				parser.abort();
+			}
+		}
+	});
+
+	if (quoteProblems.length > 0) {
+		throw new DatasetError(
+			'malformed-quotes',
+			`${rowList(quoteProblems.map((p) => p.row!))} ${quoteProblems.length === 1 ? 'has' : 'have'} a badly quoted field: ${quoteProblems[0].problem}`,
+			quoteProblems
+		);
+	}
+	if (records.length === 0) throw new DatasetError('empty', 'the file is empty');
+	checkFieldCounts(records, delimiter);
+
+	const lastRow = records[records.length - 1].row;
+	const inner = blankRows.filter((r) => r < lastRow && r > records[0].row);
+	if (inner.length > 0) notes.push(`skipped blank ${rowList(inner)}`);
+
+	return buildTable(records, {
+		format: delimiter === '\t' ? 'tsv' : 'csv',
+		columnLabel: (j) => `column ${j + 1}`,
+		notes,
+		warnings,
+		truncated,
+		delimiter
+	});
+}
+
+/**
+ * The candidate that splits the first lines into the most consistent number
+ * of fields (at least two); ties go to the larger field count, then to the
+ * delimiter the file name promises. Null when nothing splits the lines.
+ */
+export function detectDelimiter(text: string, preferred = ','): string | null {
+	let end = -1;
+	for (let n = 0; n < SNIFF_LINES; n++) {
+		end = text.indexOf('\n', end + 1);
+		if (end === -1) break;
+	}
+	const sample = end === -1 ? text : text.slice(0, end);
+	const order = [preferred, ...CANDIDATES.filter((c) => c !== preferred)];
+
+	let best: string | null = null;
+	let bestShare = 0;
+	let bestWidth = 0;
+	for (const candidate of order) {
+		const rows = Papa.parse<string[]>(sample, { delimiter: candidate }).data.filter(
+			(r) => !r.every((c) => c.trim() === '')
+		);
+		if (rows.length === 0) continue;
+		const { mode, share } = modalCount(rows.map((r) => trimmedLength(r)));
+		if (mode < 2) continue;
+		if (share > bestShare || (share === bestShare && mode > bestWidth)) {
+			best = candidate;
+			bestShare = share;
+			bestWidth = mode;
+		}
+	}
+	return best;
+}
+
+/**
+ * Every record must have the table's field count. Rows that would have it
+ * when split at another delimiter are reported as mixed delimiters.
+ */
+function checkFieldCounts(records: RawRecord[], delimiter: string): void {
+	const { mode: usual } = modalCount(records.map((r) => r.cells.length));
+	// Trailing fields that are empty in every usual row ("1,2,3," throughout) are not columns.
+	let width = 0;
+	for (const r of records) {
+		if (r.cells.length === usual) width = Math.max(width, trimmedLength(r.cells as string[]));
+	}
+	const bad: { row: number; count: number; other: string | null }[] = [];
+	for (const record of records) {
+		const cells = record.cells as string[];
+		const count = trimmedLength(cells);
+		if (count <= width && cells.length >= width) {
+			cells.length = width;
+			continue;
+		}
+		bad.push({ row: record.row, count: count > width ? count : cells.length, other: otherDelimiter(cells, delimiter, width) });
+	}
+	if (bad.length === 0) return;
+
+	const mixed = bad.filter((b) => b.other !== null);
+	const details: ErrorDetail[] = bad.slice(0, MAX_ERROR_DETAILS).map((b) => ({
+		row: b.row,
+		problem:
+			b.other !== null
+				? `uses ${showDelimiter(b.other)} as the delimiter instead of ${showDelimiter(delimiter)}`
+				: `has ${b.count} field${b.count === 1 ? '' : 's'}; the table has ${width}`
+	}));
+	if (mixed.length > 0) {
+		const others = [...new Set(mixed.map((m) => m.other!))].map(showDelimiter).join(' or ');
+		throw new DatasetError(
+			'mixed-delimiters',
+			`${rowList(mixed.map((m) => m.row))} use${mixed.length === 1 ? 's' : ''} ${others} as the delimiter but the rest of the file uses ${showDelimiter(delimiter)}; use one delimiter throughout`,
+			details
+		);
+	}
+	throw new DatasetError(
+		'field-count',
+		`${rowList(bad.map((b) => b.row))} ${bad.length === 1 ? 'does' : 'do'} not have ${width} fields like the rest of the table (${details
+			.slice(0, 3)
+			.map((d) => `row ${d.row} ${d.problem.split(';')[0]}`)
+			.join(', ')}${bad.length > 3 ? ', …' : ''})`,
+		details
+	);
+}
+
+function otherDelimiter(cells: string[], delimiter: string, width: number): string | null {
+	const line = cells.join(delimiter);
+	for (const other of CANDIDATES) {
+		if (other === delimiter || !line.includes(other)) continue;
+		const split = Papa.parse<string[]>(line, { delimiter: other }).data[0];
+		if (split && trimmedLength(split) === width) return other;
+	}
+	return null;
+}
+
+/** Field count without trailing empty fields. */
+function trimmedLength(cells: string[]): number {
+	let n = cells.length;
+	while (n > 0 && cells[n - 1].trim() === '') n--;
+	return n;
+}
+
+/** Most common value (ties go to the first seen) and the share of items equal to it. */
+function modalCount(counts: number[]): { mode: number; share: number } {
+	const tally = new Map<number, number>();
+	for (const c of counts) tally.set(c, (tally.get(c) ?? 0) + 1);
+	let mode = counts[0];
+	let best = 0;
+	for (const [c, n] of tally) {
+		if (n > best) {
+			mode = c;
+			best = n;
+		}
+	}
+	return { mode, share: best / counts.length };
+}
+
+function quoteProblem(code: string): string {
+	if (code === 'MissingQuotes') return 'a quoted field is never closed';
+	if (code === 'InvalidQuotes') return 'a closing quote is followed by other characters';
+	return 'a quote is out of place';
+}
+
+export function showDelimiter(d: string): string {
+	return d === '\t' ? 'tab' : `'${d}'`;
+}
+
+/** "row 4", "rows 3 and 5", "rows 3, 5, 8, … (14 rows)". */
+export function rowList(rows: number[], max = 10): string {
+	if (rows.length === 1) return `row ${rows[0]}`;
+	if (rows.length === 2) return `rows ${rows[0]} and ${rows[1]}`;
+	if (rows.length <= max) return `rows ${rows.slice(0, -1).join(', ')} and ${rows[rows.length - 1]}`;
+	return `rows ${rows.slice(0, max).join(', ')}, … (${rows.length} rows)`;
+}

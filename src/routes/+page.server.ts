@@ -1,0 +1,21 @@
+import { redirect } from '@sveltejs/kit';
+import { workspaceCreateSchema } from '$lib/schemas';
+import { requireUser } from '$lib/server/access';
+import { db } from '$lib/server/db';
+import { formAction } from '$lib/server/forms';
+import * as workspaces from '$lib/server/workspaces';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async ({ locals }) => {
+	if (!locals.user) return { workspaces: null };
+	return { workspaces: await workspaces.listForUser(db(), locals.user.id) };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	createWorkspace: async ({ request, locals }) => {
+		const user = requireUser(locals);
+		const result = await formAction(request, workspaceCreateSchema, ({ name }) => workspaces.create(db(), user.id, name));
+		if ('slug' in result) redirect(303, `/w/${result.slug}`);
+		return result;
+	}
+} satisfies Actions;

@@ -1,0 +1,24 @@
+import { redirect } from '@sveltejs/kit';
+import { signInSchema } from '$lib/schemas';
+import { signIn, startSession } from '$lib/server/accounts';
+import { formAction } from '$lib/server/forms';
+import type { Actions, PageServerLoad } from './$types';
+
+const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
+
+export const load = (({ locals, url }) => {
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')));
+	return { next: safeNext(url.searchParams.get('next')) };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	default: async (event) => {
+		const result = await formAction(event.request, signInSchema, async (input) => {
+			const user = await signIn(input, event.getClientAddress());
+			await startSession(event.cookies, user.id, event.locals.session?.id);
+			return { ok: true as const };
+		});
+		if ('ok' in result) redirect(303, safeNext(event.url.searchParams.get('next')));
+		return result;
+	}
+} satisfies Actions;

@@ -1,0 +1,12 @@
+import { resetRequestSchema } from '$lib/schemas';
+import { requestPasswordReset } from '$lib/server/accounts';
+import { formAction } from '$lib/server/forms';
+import type { Actions } from './$types';
+
+export const actions = {
+	default: async ({ request, url }) =>
+		formAction(request, resetRequestSchema, async ({ email }) => {
+			await requestPasswordReset(email, url.origin);
+			return { sent: true as const, email };
+		})
+} satisfies Actions;

@@ -1,0 +1,26 @@
+import { redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+
+import { resetPassword } from '$lib/server/accounts';
+import { db } from '$lib/server/db';
+import { formAction } from '$lib/server/forms';
+import * as passwordResets from '$lib/server/passwordResets';
+import type { Actions, PageServerLoad } from './$types';
+
+const schema = z.object({ password: z.string().min(10, { error: 'password must be at least 10 characters' }).max(256) });
+
+export const load = (async ({ params }) => {
+	const state = await passwordResets.check(db(), params.token);
+	return { problem: state.ok ? null : passwordResets.MESSAGES[state.reason] };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	default: async ({ request, params }) => {
+		const result = await formAction(request, schema, async ({ password }) => {
+			await resetPassword(params.token, password);
+			return { done: true as const };
+		});
+		if ('done' in result) redirect(303, '/login?reset=1');
+		return result;
+	}
+} satisfies Actions;

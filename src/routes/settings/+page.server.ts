@@ -1,0 +1,38 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { profileSchema, tokenCreateSchema } from '$lib/schemas';
+import * as apiTokens from '$lib/server/apiTokens';
+import { db } from '$lib/server/db';
+import { formAction } from '$lib/server/forms';
+import * as users from '$lib/server/users';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async ({ locals, url }) => {
+	if (!locals.user) redirect(303, `/login?next=${encodeURIComponent(url.pathname)}`);
+	const tokens = await apiTokens.list(db(), locals.user.id);
+	return { profile: { name: locals.user.name, email: locals.user.email }, tokens };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	profile: async ({ request, locals }) => {
+		if (!locals.user) redirect(303, '/login');
+		const user = locals.user;
+		return formAction(request, profileSchema, async ({ name }) => {
+			await users.setName(db(), user.id, name);
+			return { saved: true as const };
+		});
+	},
+	createToken: async ({ request, locals }) => {
+		if (!locals.user) redirect(303, '/login');
+		const user = locals.user;
+		return formAction(request, tokenCreateSchema, async ({ name }) => {
+			const created = await apiTokens.create(db(), user.id, name);
+			return { created: { name, token: created.token } };
+		});
+	},
+	revokeToken: async ({ request, locals }) => {
+		if (!locals.user) redirect(303, '/login');
+		const id = String((await request.formData()).get('id') ?? '');
+		if (!(await apiTokens.revoke(db(), locals.user.id, id))) return fail(404, { message: 'no such token' });
+		return { revoked: true as const };
+	}
+} satisfies Actions;
