@@ -1,0 +1,125 @@
+/**
+ * The line-search descent loop shared by BFGS and steepest descent
+ * (Nocedal & Wright, Numerical Optimization, 2nd ed. 2006: Algorithm 6.1 for
+ * BFGS; §3.1 for steepest descent), with the strong-Wolfe search of
+ * Algorithms 3.5/3.6.
+ *
+ * Bounds by projection: the start is projected into the box; an input on a
+ * bound whose gradient points out of the box is held (its direction component
+ * set to zero, and for BFGS the direction uses the principal submatrix of the
+ * inverse Hessian on the free inputs, which stays positive definite — the
+ * two-metric projection idea of D. P. Bertsekas, "Projected Newton methods for
+ * optimization problems with simple constraints", SIAM J. Control Optim.
+ * 20(2):221–246, 1982); the search runs up to the longest step that stays in
+ * the box, and the accepted point is projected to remove rounding. The stop
+ * test uses the projected gradient ‖x − P(x − ∇f)‖∞.
+ */
+import { allFinite, identity, norm2, normInf } from './linalg';
+import { inverseBfgsUpdate } from './quasiNewton';
+import { fmt, scaleOf, type Run } from './run';
+import { conclude } from './secondOrder';
+import type { RunResult } from './types';
+import { wolfeLineSearch } from './wolfeLineSearch';
+
+export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-descent'): RunResult {
+	return run.guard(() => {
+		const n = run.n;
+		const { stepTol, fTol } = run.settings;
+		let p = run.evaluate(run.prepareStart(start));
+		if (!Number.isFinite(p.f)) run.stop('diverged', `f is not finite at the start ${fmt(p.x)}`, p);
+		if (!allFinite(p.grad)) run.stop('diverged', `∇f is not finite at the start ${fmt(p.x)}`, p);
+		run.record(p);
+		// inverse Hessian approximation; null = identity, scaled by yᵀs/yᵀy at the next update (N&W eq. 6.20)
+		let H: number[][] | null = null;
+		let fPrev = NaN;
+		let flat = 0;
+		let retried = false;
+		for (;;) {
+			const x = p.x;
+			const g = p.grad;
+			const pg = run.projectedGradNorm(x, g);
+			if (run.firstOrderMet(p, pg)) return conclude(run, p, `‖projected ∇f‖∞ = ${pg.toExponential(2)} within tolerance`);
+			run.beginIteration();
+			const free = new Array<boolean>(n);
+			for (let i = 0; i < n; i++) free[i] = !((x[i] <= run.lo[i] && g[i] > 0) || (x[i] >= run.hi[i] && g[i] < 0));
+			const d = new Array<number>(n).fill(0);
+			for (let i = 0; i < n; i++) {
+				if (!free[i]) continue;
+				if (method === 'bfgs' && H) {
+					let v = 0;
+					for (let j = 0; j < n; j++) if (free[j]) v -= H[i][j] * g[j];
+					d[i] = v;
+				} else d[i] = -g[i];
+			}
+			let dphi0 = 0;
+			for (let i = 0; i < n; i++) dphi0 += g[i] * d[i];
+			if (!(dphi0 < 0)) {
+				if (H) {
+					// lost positive definiteness to rounding: restart from the gradient
+					H = null;
+					run.resets++;
+					continue;
+				}
+				run.stop('stalled', `no descent direction at ${fmt(x)} (projected gradient ${pg.toExponential(2)})`);
+			}
+			let alphaMax = Infinity;
+			for (let i = 0; i < n; i++) {
+				if (d[i] < 0 && run.lo[i] > -Infinity) alphaMax = Math.min(alphaMax, (run.lo[i] - x[i]) / d[i]);
+				else if (d[i] > 0 && run.hi[i] < Infinity) alphaMax = Math.min(alphaMax, (run.hi[i] - x[i]) / d[i]);
+			}
+			// initial trial step: 1 for quasi-Newton once scaled; otherwise N&W eq. 3.60
+			let alpha0: number;
+			if (method === 'bfgs' && H) alpha0 = 1;
+			else if (Number.isFinite(fPrev) && fPrev > p.f) alpha0 = Math.min(method === 'bfgs' ? 1 : Infinity, (1.01 * 2 * (p.f - fPrev)) / dphi0);
+			else alpha0 = Math.min(1, 1 / norm2(d));
+			if (!(alpha0 > 0) || !Number.isFinite(alpha0)) alpha0 = 1;
+			const ls = wolfeLineSearch(run, p, d, { alpha0, alphaMax, c2: method === 'bfgs' ? 0.9 : 0.1 });
+			if (!ls.point) {
+				if (ls.status === 'nonfinite') run.stop('diverged', `f is not finite at any trial step from ${fmt(x)}`);
+				if (method === 'bfgs' && H && !retried) {
+					H = null;
+					run.resets++;
+					retried = true;
+					continue;
+				}
+				run.stop('stalled', `line search found no decrease from ${fmt(x)} (‖projected ∇f‖∞ = ${pg.toExponential(2)}): a kink, a step or noise`);
+			}
+			retried = false;
+			const q = ls.point;
+			if (q.f === -Infinity || normInf(q.x) > 1e150) {
+				run.record(q);
+				run.stop('diverged', q.f === -Infinity ? 'f → −∞ (unbounded below)' : `iterates diverge (‖x‖∞ = ${normInf(q.x).toExponential(2)})`, q);
+			}
+			if (method === 'bfgs') {
+				const s = q.x.map((v, i) => v - x[i]);
+				const gq = q.grad;
+				const y = gq.map((v, i) => v - g[i]);
+				let sy = 0;
+				let yy = 0;
+				for (let i = 0; i < n; i++) {
+					sy += s[i] * y[i];
+					yy += y[i] * y[i];
+				}
+				if (!H) {
+					if (sy > 0 && yy > 0 && Number.isFinite(sy / yy)) {
+						H = identity(n, sy / yy);
+						if (!inverseBfgsUpdate(H, s, y)) H = null;
+					}
+				} else if (!inverseBfgsUpdate(H, s, y)) {
+					H = null;
+					run.resets++;
+				}
+			}
+			run.record(q);
+			const stepInf = normInf(q.x.map((v, i) => v - x[i]));
+			fPrev = p.f;
+			const df = Math.abs(q.f - p.f);
+			p = q;
+			if (stepInf <= stepTol * scaleOf(p.x))
+				run.stop('stalled', `no progress: step ${stepInf.toExponential(2)} below the step tolerance (‖projected ∇f‖∞ = ${run.projectedGradNorm(p.x, p.grad).toExponential(2)})`);
+			// relative test: near f* = 0 every decrease is still progress
+			flat = df <= fTol * Math.abs(p.f) ? flat + 1 : 0;
+			if (flat >= 3) run.stop('stalled', `no progress: f unchanged over 3 iterations (‖projected ∇f‖∞ = ${run.projectedGradNorm(p.x, p.grad).toExponential(2)})`);
+		}
+	});
+}

@@ -1,0 +1,504 @@
+/**
+ * Run: the bookkeeping every optimizer shares — fair evaluation counting,
+ * budgets (iterations, evaluations, wall time), refusals outside the domain,
+ * the sign flip for `maximize`, the least-squares form of `solve`, the path,
+ * and the assembly of the result. An optimizer ends a run by throwing the
+ * private `Stop` sentinel through `run.stop(...)`; `run.guard` turns it into a
+ * RunResult. Because the sentinel is thrown from inside `evaluate`, it also
+ * stops third-party loops (fmin) that call the objective.
+ */
+import { allFinite, norm2, normInf } from './linalg';
+import type {
+	Evaluation,
+	Evaluations,
+	IterationRecord,
+	KktResiduals,
+	Multipliers,
+	OptimizeOptions,
+	OptimizerName,
+	Outcome,
+	Path,
+	Problem,
+	ProblemKind,
+	RunResult
+} from './types';
+
+/** Options with every default filled in. */
+export interface Settings {
+	gradTol: number;
+	stepTol: number;
+	fTol: number;
+	feasTol: number;
+	residualTol: number;
+	maxIterations: number;
+	maxEvaluations: number;
+	maxMilliseconds: number;
+	clock: () => number;
+	onIteration: ((record: IterationRecord) => void | boolean) | null;
+	secondOrderCheck: boolean;
+}
+
+export const DEFAULT_SETTINGS: Omit<Settings, 'clock' | 'onIteration'> = {
+	gradTol: 1e-8,
+	stepTol: 1e-12,
+	fTol: 1e-14,
+	feasTol: 1e-8,
+	residualTol: 1e-10,
+	maxIterations: 1000,
+	maxEvaluations: 10000,
+	maxMilliseconds: 10000,
+	secondOrderCheck: true
+};
+
+function defaultClock(): () => number {
+	const perf = (globalThis as { performance?: { now(): number } }).performance;
+	return perf && typeof perf.now === 'function' ? () => perf.now() : () => Date.now();
+}
+
+/** The private sentinel: never exported beyond this module. */
+class Stop extends Error {
+	constructor(
+		readonly outcome: Outcome,
+		readonly reason: string,
+		readonly point: Point | null
+	) {
+		super(reason);
+	}
+}
+
+/** How the user's objective is turned into the function the optimizer minimizes. */
+type Mode = 'min' | 'max' | 'least-squares';
+
+/** One evaluation of the objective, with lazily counted derivatives. */
+export class Point {
+	private gradRead = false;
+	private hessRead = false;
+	private g: number[] | null = null;
+	private h: number[][] | null | undefined = undefined;
+	private cons: { values: number[]; grads: number[][] } | null = null;
+
+	constructor(
+		private readonly run: Run,
+		/** the evaluated input (a private copy) */
+		readonly x: number[],
+		/** the minimized function's value (−f when maximizing, ½(f − target)² in least-squares mode) */
+		readonly f: number,
+		private readonly raw: Evaluation
+	) {}
+
+	/** the user's f */
+	get userF(): number {
+		return this.raw.f;
+	}
+
+	get outside(): boolean {
+		return this.raw.outside === true;
+	}
+
+	/** true when f and the gradient are finite (the gradient is read, and counted) */
+	get usable(): boolean {
+		return Number.isFinite(this.f) && allFinite(this.grad);
+	}
+
+	private countGrad(): void {
+		if (!this.gradRead) {
+			this.gradRead = true;
+			this.run.counts.grad++;
+		}
+	}
+
+	/** gradient of the minimized function; the first read counts one gradient evaluation */
+	get grad(): number[] {
+		this.countGrad();
+		if (!this.g) {
+			const raw = this.raw.grad;
+			const n = this.run.n;
+			const g = new Array<number>(n);
+			const mode = this.run.mode;
+			const r = mode === 'least-squares' ? this.raw.f - this.run.target : 0;
+			for (let i = 0; i < n; i++) {
+				const v = raw && i < raw.length ? raw[i] : NaN;
+				g[i] = mode === 'max' ? -v : mode === 'least-squares' ? r * v : v;
+			}
+			this.g = g;
+		}
+		return this.g;
+	}
+
+	/** the user's gradient, counted like `grad` */
+	get userGrad(): number[] {
+		this.countGrad();
+		return this.peekUserGrad();
+	}
+
+	/** the user's gradient for the record — not counted (the optimizer did not use it) */
+	peekUserGrad(): number[] {
+		const raw = this.raw.grad;
+		const out = new Array<number>(this.run.n);
+		for (let i = 0; i < out.length; i++) out[i] = raw && i < raw.length ? raw[i] : NaN;
+		return out;
+	}
+
+	/** the user's Hessian if the objective gives one; the first read counts one Hessian evaluation */
+	get userHess(): number[][] | null {
+		const h = this.raw.hess;
+		if (!h) return null;
+		if (!this.hessRead) {
+			this.hessRead = true;
+			this.run.counts.hess++;
+		}
+		return h;
+	}
+
+	/** Hessian of the minimized function (null if the objective gives none; least squares: Gauss–Newton plus r·∇²f) */
+	get hess(): number[][] | null {
+		if (this.h !== undefined) return this.h;
+		const H = this.userHess;
+		const mode = this.run.mode;
+		if (!H) {
+			this.h = null;
+		} else if (mode === 'min') {
+			this.h = H;
+		} else if (mode === 'max') {
+			this.h = H.map((row) => row.map((v) => -v));
+		} else {
+			const g = this.userGrad;
+			const r = this.raw.f - this.run.target;
+			this.h = H.map((row, i) => row.map((v, j) => r * v + g[i] * g[j]));
+		}
+		return this.h;
+	}
+
+	/** values and gradients of all constraints at x (one counted call of the constraint set) */
+	constraints(): { values: number[]; grads: number[][] } {
+		if (!this.cons) this.cons = this.run.evaluateConstraints(this.x);
+		return this.cons;
+	}
+}
+
+export class Run {
+	readonly n: number;
+	readonly kind: ProblemKind;
+	readonly mode: Mode;
+	readonly target: number;
+	readonly lo: number[];
+	readonly hi: number[];
+	readonly hasBounds: boolean;
+	readonly settings: Settings;
+	readonly counts: Evaluations = { f: 0, grad: 0, hess: 0, constraints: 0 };
+	resets = 0;
+	outsideEvaluations = 0;
+	readonly notes: string[] = [];
+	readonly path: Path = { x: [], f: [], grad: [], step: [], violation: [], merit: [], active: [] };
+	/** last accepted iterate */
+	current: Point | null = null;
+	private readonly t0: number;
+	private startX: number[] = [];
+
+	constructor(
+		readonly problem: Problem,
+		readonly optimizer: OptimizerName,
+		options: OptimizeOptions,
+		/** per-optimizer defaults, overridden by the caller's options */
+		defaults: Partial<Settings> = {},
+		/** `solve` handled natively (Newton) rather than as least squares */
+		nativeSolve = false
+	) {
+		const obj = problem.objective;
+		if (!Number.isInteger(obj.n) || obj.n < 1) throw new RangeError(`objective.n must be a positive integer, got ${obj.n}`);
+		this.n = obj.n;
+		this.kind = problem.kind;
+		if (problem.kind === 'solve') {
+			if (!Number.isFinite(problem.target)) throw new RangeError('a solve problem needs a finite target');
+			this.target = problem.target as number;
+			this.mode = nativeSolve ? 'min' : 'least-squares';
+		} else {
+			this.target = 0;
+			this.mode = problem.kind === 'maximize' ? 'max' : 'min';
+		}
+		this.lo = new Array<number>(this.n).fill(-Infinity);
+		this.hi = new Array<number>(this.n).fill(Infinity);
+		if (obj.bounds) {
+			if (obj.bounds.length !== this.n) throw new RangeError(`bounds has ${obj.bounds.length} entries for n = ${this.n}`);
+			obj.bounds.forEach(([a, b], i) => {
+				if (Number.isNaN(a) || Number.isNaN(b) || a > b) throw new RangeError(`invalid bounds [${a}, ${b}] on input ${i}`);
+				this.lo[i] = a;
+				this.hi[i] = b;
+			});
+		}
+		this.hasBounds = this.lo.some((v) => v > -Infinity) || this.hi.some((v) => v < Infinity);
+		const pick = <K extends keyof Settings>(k: K, fallback: Settings[K]): Settings[K] => {
+			const v = (options as Partial<Settings>)[k];
+			if (v !== undefined && v !== null) return v as Settings[K];
+			const d = defaults[k];
+			return d !== undefined ? (d as Settings[K]) : fallback;
+		};
+		this.settings = {
+			gradTol: pick('gradTol', DEFAULT_SETTINGS.gradTol),
+			stepTol: pick('stepTol', DEFAULT_SETTINGS.stepTol),
+			fTol: pick('fTol', DEFAULT_SETTINGS.fTol),
+			feasTol: pick('feasTol', DEFAULT_SETTINGS.feasTol),
+			residualTol: pick('residualTol', DEFAULT_SETTINGS.residualTol),
+			maxIterations: pick('maxIterations', DEFAULT_SETTINGS.maxIterations),
+			maxEvaluations: pick('maxEvaluations', DEFAULT_SETTINGS.maxEvaluations),
+			maxMilliseconds: pick('maxMilliseconds', DEFAULT_SETTINGS.maxMilliseconds),
+			clock: options.clock ?? defaultClock(),
+			onIteration: options.onIteration ?? null,
+			secondOrderCheck: pick('secondOrderCheck', DEFAULT_SETTINGS.secondOrderCheck)
+		};
+		this.t0 = this.settings.clock();
+	}
+
+	get constraintCount(): number {
+		return this.problem.objective.constraints?.length ?? 0;
+	}
+
+	get iterations(): number {
+		return Math.max(0, this.path.x.length - 1);
+	}
+
+	/** clip x into the bounds */
+	project(x: number[]): number[] {
+		const out = new Array<number>(this.n);
+		for (let i = 0; i < this.n; i++) out[i] = Math.min(this.hi[i], Math.max(this.lo[i], x[i]));
+		return out;
+	}
+
+	/** validate and project the start; notes the projection */
+	prepareStart(start: number[]): number[] {
+		if (!Array.isArray(start) || start.length !== this.n) throw new RangeError(`start must have ${this.n} entries`);
+		if (!allFinite(start)) throw new RangeError('start must be finite');
+		this.startX = start.slice();
+		const x = this.project(start);
+		if (x.some((v, i) => v !== start[i])) this.notes.push('start projected into the bounds');
+		return x;
+	}
+
+	elapsed(): number {
+		return this.settings.clock() - this.t0;
+	}
+
+	private checkTime(): void {
+		if (this.elapsed() > this.settings.maxMilliseconds)
+			this.stop('iteration-limit', `time budget of ${this.settings.maxMilliseconds} ms exhausted`);
+	}
+
+	/** call before starting an iteration: ends the run when the iteration or time budget is spent */
+	beginIteration(): void {
+		if (this.iterations >= this.settings.maxIterations)
+			this.stop('iteration-limit', `iteration budget of ${this.settings.maxIterations} exhausted`);
+		this.checkTime();
+	}
+
+	private outsideDomain(x: number[]): boolean {
+		const d = this.problem.objective.domain;
+		if (!d) return false;
+		for (let i = 0; i < this.n; i++) if (x[i] < d[i][0] || x[i] > d[i][1]) return true;
+		return false;
+	}
+
+	evaluate(xIn: ArrayLike<number>): Point {
+		if (this.counts.f >= this.settings.maxEvaluations)
+			this.stop('iteration-limit', `evaluation budget of ${this.settings.maxEvaluations} exhausted`);
+		this.checkTime();
+		const x = Array.from(xIn);
+		this.counts.f++;
+		let raw: Evaluation;
+		const outside = this.outsideDomain(x);
+		try {
+			raw = this.problem.objective.evaluate(x.slice());
+		} catch (err) {
+			if (err instanceof Stop) throw err;
+			if (this.problem.objective.domain && !outside) throw err; // a fault inside the domain is a bug, not a refusal
+			this.stop('left-domain', `objective refused x = ${fmt(x)}: ${err instanceof Error ? err.message : String(err)}`);
+		}
+		if (!raw || typeof raw.f !== 'number') throw new TypeError('objective.evaluate must return { f, grad }');
+		if (outside || raw.outside) {
+			this.outsideEvaluations++;
+			if (raw.outside && this.problem.objective.refuseOutside)
+				this.stop('left-domain', `asked for x = ${fmt(x)} outside the data, where the fit refuses to extrapolate`);
+		}
+		let f: number;
+		if (this.mode === 'min') f = raw.f;
+		else if (this.mode === 'max') f = -raw.f;
+		else {
+			const r = raw.f - this.target;
+			f = 0.5 * r * r;
+		}
+		if (Number.isNaN(f)) f = NaN;
+		return new Point(this, x, f, raw);
+	}
+
+	evaluateConstraints(x: number[]): { values: number[]; grads: number[][] } {
+		const cs = this.problem.objective.constraints ?? [];
+		this.counts.constraints++;
+		const values: number[] = [];
+		const grads: number[][] = [];
+		for (const c of cs) {
+			let v;
+			try {
+				v = c.evaluate(x.slice());
+			} catch (err) {
+				if (err instanceof Stop) throw err;
+				this.stop('left-domain', `constraint ${c.label ?? ''} refused x = ${fmt(x)}: ${err instanceof Error ? err.message : String(err)}`);
+			}
+			values.push(v.value);
+			grads.push(Array.from({ length: this.n }, (_, i) => (v.grad && i < v.grad.length ? v.grad[i] : NaN)));
+		}
+		return { values, grads };
+	}
+
+	/** largest violation of the general constraints at x (bounds are kept by projection) */
+	violation(values: number[]): number {
+		const cs = this.problem.objective.constraints ?? [];
+		let v = 0;
+		for (let i = 0; i < cs.length; i++) {
+			const c = cs[i].kind === 'eq' ? Math.abs(values[i]) : Math.max(0, values[i]);
+			if (!(c <= v)) v = c; // NaN propagates
+		}
+		return v;
+	}
+
+	/** is `measure` (a gradient or KKT residual) small enough at p — or, for `solve` as least squares, is the target met? */
+	firstOrderMet(p: Point, measure: number): boolean {
+		if (this.mode === 'least-squares' && this.residualMet(p)) return true;
+		return measure <= this.settings.gradTol * Math.max(1, Math.abs(p.f));
+	}
+
+	residualMet(p: Point): boolean {
+		return Math.abs(p.userF - this.target) <= this.settings.residualTol * Math.max(1, Math.abs(this.target));
+	}
+
+	/** ‖x − P(x − g)‖∞: the projected gradient (plain ‖g‖∞ without bounds) */
+	projectedGradNorm(x: number[], g: number[]): number {
+		let m = 0;
+		for (let i = 0; i < this.n; i++) {
+			const t = Math.min(this.hi[i], Math.max(this.lo[i], x[i] - g[i]));
+			const v = Math.abs(x[i] - t);
+			if (!(v <= m)) m = v;
+		}
+		return m;
+	}
+
+	/** append an accepted iterate (the start is iteration 0) */
+	record(p: Point, extra: { violation?: number; merit?: number; active?: string[] } = {}): void {
+		const prev = this.path.x.length ? this.path.x[this.path.x.length - 1] : null;
+		let step = 0;
+		if (prev) {
+			const d = new Array<number>(this.n);
+			for (let i = 0; i < this.n; i++) d[i] = p.x[i] - prev[i];
+			step = norm2(d);
+		}
+		const rec: IterationRecord = {
+			iteration: this.path.x.length,
+			x: p.x.slice(),
+			f: p.userF,
+			grad: p.peekUserGrad(),
+			step,
+			violation: extra.violation ?? 0,
+			merit: extra.merit ?? p.f,
+			active: extra.active ?? []
+		};
+		this.path.x.push(rec.x);
+		this.path.f.push(rec.f);
+		this.path.grad.push(rec.grad);
+		this.path.step.push(rec.step);
+		this.path.violation.push(rec.violation);
+		this.path.merit.push(rec.merit);
+		this.path.active.push(rec.active);
+		this.current = p;
+		if (this.settings.onIteration && this.settings.onIteration(rec) === false)
+			this.stop('iteration-limit', 'stopped by the caller');
+	}
+
+	/** end the run (throws the sentinel); `point` defaults to the last accepted iterate */
+	stop(outcome: Outcome, reason: string, point: Point | null = null): never {
+		throw new Stop(outcome, reason, point);
+	}
+
+	/** run the optimizer body; a Stop becomes the result, anything else propagates */
+	guard(body: () => RunResult): RunResult {
+		try {
+			return body();
+		} catch (err) {
+			if (!(err instanceof Stop)) throw err;
+			return this.finish(err.point ?? this.current, err.outcome, err.reason);
+		}
+	}
+
+	isStop(err: unknown): boolean {
+		return err instanceof Stop;
+	}
+
+	/** the outcome carried by a sentinel, or null for any other error */
+	stopOutcome(err: unknown): Outcome | null {
+		return err instanceof Stop ? err.outcome : null;
+	}
+
+	finish(
+		point: Point | null,
+		outcome: Outcome,
+		reason: string,
+		extra: { multipliers?: Multipliers | null; kkt?: KktResiduals | null } = {}
+	): RunResult {
+		const x = point ? point.x.slice() : this.startX.slice();
+		const f = point ? point.userF : NaN;
+		const g = point ? point.peekUserGrad() : new Array<number>(this.n).fill(NaN);
+		if (point && this.current !== point && this.path.x.length && outcome !== 'left-domain') {
+			// the final point was reached inside a wrapped loop and not yet recorded
+			const last = this.path.x[this.path.x.length - 1];
+			if (last.some((v, i) => v !== point.x[i])) {
+				try {
+					this.record(point);
+				} catch (err) {
+					if (!(err instanceof Stop)) throw err;
+				}
+			}
+		}
+		if (outcome === 'converged' && (!Number.isFinite(f) || !allFinite(x))) {
+			outcome = 'diverged';
+			reason = `non-finite value at the end point (${reason})`;
+		}
+		const kinkAt = this.problem.objective.kinkAt;
+		let atKink = false;
+		if (outcome === 'stalled' && kinkAt && allFinite(x)) {
+			try {
+				atKink = !!kinkAt(x.slice());
+			} catch {
+				atKink = false;
+			}
+		}
+		return {
+			optimizer: this.optimizer,
+			kind: this.kind,
+			outcome,
+			reason,
+			atKink,
+			x,
+			f,
+			gradNorm: norm2(g),
+			iterations: this.iterations,
+			evaluations: { ...this.counts },
+			resets: this.resets,
+			outsideEvaluations: this.outsideEvaluations,
+			multipliers: extra.multipliers ?? null,
+			kkt: extra.kkt ?? null,
+			start: this.startX.slice(),
+			ms: this.elapsed(),
+			notes: this.notes.slice(),
+			path: this.path
+		};
+	}
+}
+
+/** short vector text for reasons */
+export function fmt(x: ArrayLike<number>): string {
+	const parts: string[] = [];
+	for (let i = 0; i < x.length; i++) parts.push(Number(x[i]).toPrecision(6).replace(/\.?0+(e|$)/, '$1'));
+	return `(${parts.join(', ')})`;
+}
+
+/** max-norm of x for relative step tests */
+export function scaleOf(x: number[]): number {
+	return 1 + normInf(x);
+}

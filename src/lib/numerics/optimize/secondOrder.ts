@@ -1,0 +1,190 @@
+/**
+ * The end-of-run verdict on a first-order point. A run is `converged` only if
+ * the point also passes a second-order check; otherwise it is `stalled` with
+ * the reason. (General libraries have been seen to report success at a
+ * maximum or saddle of a flat-ish function; this check is the guard.)
+ *
+ * Second-order necessary condition (Nocedal & Wright, Numerical Optimization,
+ * 2nd ed. 2006, Thm 2.3 unconstrained; Thm 12.5 constrained): the Hessian of
+ * the Lagrangian is positive semidefinite on the null space Z of the strongly
+ * active constraint normals. We form the reduced Hessian Zᵀ∇²L Z from the
+ * objective's Hessian when it is given and no general constraint is active,
+ * else by forward differences of ∇L along Z (central second differences of f
+ * for the derivative-free Nelder–Mead), and ask for λ_min ≥ −tol. When λ_min is
+ * numerically zero (a degenerate minimum such as x⁴, a flat plateau, or a
+ * maximum such as −x⁴) we probe L at ±h along the eigenvector of λ_min and fail
+ * if it drops. The check's evaluations are counted like any other.
+ */
+import { EPS, dot, nullSpaceBasis, norm2, normInf, symmetricEigen } from './linalg';
+import { fmt, type Point, type Run } from './run';
+import type { KktResiduals, Multipliers, RunResult } from './types';
+
+export interface SecondOrderContext {
+	/** ∇L at a point (minimized sense); default: the point's gradient */
+	lagrangianGrad?: (p: Point) => number[];
+	/** L at a point; default: the point's f */
+	lagrangianValue?: (p: Point) => number;
+	/** normals of the strongly active general constraints (bounds are found here) */
+	activeNormals?: number[][];
+	/** the objective's Hessian alone is not ∇²L (a general constraint is active) */
+	generalActive?: boolean;
+	/** use f values only (Nelder–Mead) */
+	derivativeFree?: boolean;
+	multipliers?: Multipliers | null;
+	kkt?: KktResiduals | null;
+}
+
+interface Verdict {
+	ok: boolean;
+	detail: string;
+}
+
+function activeBoundNormals(run: Run, p: Point, g: number[] | null): number[][] {
+	const out: number[][] = [];
+	const tolG = run.settings.gradTol * Math.max(1, Math.abs(p.f));
+	for (let i = 0; i < run.n; i++) {
+		const atLo = p.x[i] <= run.lo[i];
+		const atHi = p.x[i] >= run.hi[i];
+		if (!atLo && !atHi) continue;
+		// strongly active: the gradient pushes out of the box (derivative-free: any bound we sit on)
+		const outward = g === null ? true : atLo ? g[i] > tolG : g[i] < -tolG;
+		if (outward || run.lo[i] === run.hi[i]) {
+			const e = new Array<number>(run.n).fill(0);
+			e[i] = 1;
+			out.push(e);
+		}
+	}
+	return out;
+}
+
+/** x + t·v kept inside the box; null when the whole step does not fit */
+function shifted(run: Run, x: number[], v: number[], t: number): number[] | null {
+	const y = new Array<number>(run.n);
+	for (let i = 0; i < run.n; i++) {
+		y[i] = x[i] + t * v[i];
+		if (y[i] < run.lo[i] || y[i] > run.hi[i]) return null;
+	}
+	return y;
+}
+
+export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {}): Verdict {
+	const n = run.n;
+	const gradL = ctx.lagrangianGrad ?? ((q: Point) => q.grad);
+	const valueL = ctx.lagrangianValue ?? ((q: Point) => q.f);
+	const g0 = ctx.derivativeFree ? null : gradL(p);
+	const normals = [...(ctx.activeNormals ?? []), ...activeBoundNormals(run, p, g0)];
+	const Z = nullSpaceBasis(normals, n);
+	const k = Z.length;
+	if (k === 0) return { ok: true, detail: 'vertex: the active constraints fix the point' };
+	const xs = 1 + normInf(p.x);
+	const L0 = valueL(p);
+
+	const tryEval = (y: number[] | null): Point | null => {
+		if (!y) return null;
+		try {
+			const q = run.evaluate(y);
+			return Number.isFinite(q.f) ? q : null;
+		} catch (err) {
+			if (run.stopOutcome(err) === 'left-domain') return null;
+			throw err;
+		}
+	};
+
+	// reduced Hessian Zᵀ ∇²L Z
+	const H: number[][] = Array.from({ length: k }, () => new Array<number>(k).fill(0));
+	let noise = 0;
+	const objH = !ctx.derivativeFree && !ctx.generalActive ? p.hess : null;
+	if (objH && objH.every((r) => r.every(Number.isFinite))) {
+		for (let a = 0; a < k; a++) {
+			const Hz = objH.map((row) => dot(row, Z[a]));
+			for (let b = 0; b < k; b++) H[a][b] = dot(Z[b], Hz);
+		}
+	} else if (ctx.derivativeFree) {
+		// central second differences of f (Nocedal & Wright 2006, eq. 8.9 and 8.10)
+		const h = 1e-4 * xs;
+		noise = (16 * EPS * Math.max(1, Math.abs(L0))) / (h * h);
+		const side = (v: number[], t: number) => {
+			const q = tryEval(shifted(run, p.x, v, t));
+			return q ? valueL(q) : NaN;
+		};
+		for (let a = 0; a < k; a++) {
+			const fp = side(Z[a], h);
+			const fm = side(Z[a], -h);
+			if (Number.isFinite(fp) && Number.isFinite(fm)) H[a][a] = (fp - 2 * L0 + fm) / (h * h);
+			else if (Number.isFinite(fp)) H[a][a] = (side(Z[a], 2 * h) - 2 * fp + L0) / (h * h);
+			else if (Number.isFinite(fm)) H[a][a] = (side(Z[a], -2 * h) - 2 * fm + L0) / (h * h);
+			if (!Number.isFinite(H[a][a])) H[a][a] = 0;
+			for (let b = 0; b < a; b++) {
+				const u = Z[a].map((v, i) => v + Z[b][i]);
+				const w = Z[a].map((v, i) => v - Z[b][i]);
+				const val = (side(u, h) - side(w, h) - side(w, -h) + side(u, -h)) / (4 * h * h);
+				H[a][b] = H[b][a] = Number.isFinite(val) ? val : 0;
+			}
+		}
+	} else {
+		// forward differences of ∇L along each z (Nocedal & Wright 2006, eq. 8.20)
+		const h = 1e-6 * xs;
+		const gz = Z.map((z) => dot(z, g0 as number[]));
+		noise = (1e-8 * norm2(g0 as number[])) / h;
+		for (let a = 0; a < k; a++) {
+			let t = h;
+			let q = tryEval(shifted(run, p.x, Z[a], t));
+			if (!q) {
+				t = -h;
+				q = tryEval(shifted(run, p.x, Z[a], t));
+			}
+			if (!q) continue;
+			const gq = gradL(q);
+			for (let b = 0; b < k; b++) H[b][a] = (dot(Z[b], gq) - gz[b]) / t;
+		}
+		for (let a = 0; a < k; a++)
+			for (let b = 0; b < a; b++) H[a][b] = H[b][a] = 0.5 * (H[a][b] + H[b][a]);
+	}
+	if (!H.every((r) => r.every(Number.isFinite))) return { ok: false, detail: 'the Hessian at the point is not finite' };
+	const { values, vectors } = symmetricEigen(H);
+	const lmin = values[0];
+	const lmax = Math.max(Math.abs(values[0]), Math.abs(values[k - 1]));
+	const tol = 1e-6 * Math.max(1, lmax) + noise;
+	const vmin = new Array<number>(n).fill(0);
+	for (let a = 0; a < k; a++) for (let i = 0; i < n; i++) vmin[i] += vectors[0][a] * Z[a][i];
+	if (lmin < -tol)
+		return {
+			ok: false,
+			detail: `negative curvature ${lmin.toPrecision(3)} along ${fmt(vmin)}: a ${values[k - 1] > tol ? 'saddle' : 'maximum'}, not a minimum`
+		};
+	if (lmin > tol) return { ok: true, detail: `curvature ≥ ${lmin.toPrecision(3)}` };
+	// degenerate: probe along the flattest direction
+	const h2 = 1e-3 * xs;
+	const slope = g0 ? Math.abs(dot(g0, vmin)) : 0;
+	const allowed = 1e-12 * Math.max(1, Math.abs(L0)) + 1.01 * h2 * slope;
+	for (const t of [h2, -h2]) {
+		const q = tryEval(shifted(run, p.x, vmin, t));
+		if (q && valueL(q) < L0 - allowed)
+			return { ok: false, detail: `f decreases from the point along ${fmt(vmin)} (flat curvature, higher-order descent)` };
+	}
+	return { ok: true, detail: 'curvature ≈ 0 and no descent at ±h (degenerate or flat minimum)' };
+}
+
+/**
+ * A first-order point was found: decide `converged` or `stalled` and finish.
+ * For `solve` run as least squares, the target must be met; otherwise the
+ * point must pass the second-order check.
+ */
+export function conclude(run: Run, p: Point, firstOrderReason: string, ctx: SecondOrderContext = {}): RunResult {
+	const extra = { multipliers: ctx.multipliers ?? null, kkt: ctx.kkt ?? null };
+	if (run.mode === 'least-squares') {
+		if (run.residualMet(p)) return run.finish(p, 'converged', `f = target within tolerance (|f − target| = ${Math.abs(p.userF - run.target).toExponential(2)})`, extra);
+		return run.finish(p, 'stalled', `local minimum of |f − target| = ${Math.abs(p.userF - run.target).toPrecision(4)}: no root here`, extra);
+	}
+	if (!run.settings.secondOrderCheck) return run.finish(p, 'converged', firstOrderReason, extra);
+	let verdict: Verdict;
+	try {
+		verdict = checkSecondOrder(run, p, ctx);
+	} catch (err) {
+		const outcome = run.stopOutcome(err);
+		if (outcome === null) throw err;
+		return run.finish(p, outcome, `${(err as Error).message} (during the second-order check of a first-order point)`, extra);
+	}
+	if (verdict.ok) return run.finish(p, 'converged', `${firstOrderReason}; ${verdict.detail}`, extra);
+	return run.finish(p, 'stalled', `first-order point fails the second-order check: ${verdict.detail}`, extra);
+}
