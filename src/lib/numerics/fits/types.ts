@@ -32,6 +32,47 @@ export interface Jet {
 	outside: boolean;
 }
 
+/**
+ * Settings of a curve fit. Everything here is JSON-safe and is stored in the
+ * fit file, so a fit can be rebuilt from the same data with the same result.
+ */
+export interface CurveFitOptions {
+	/** what to do outside the data; default 'refuse' */
+	extrapolation?: Extrapolation;
+	/** repeated x values: 'error' (default) lists the rows; 'average' merges each group into its mean */
+	duplicates?: 'error' | 'average';
+	/** NaN / ±Infinity in x or y: 'error' (default) lists the rows; 'drop' leaves those rows out (noted) */
+	nonFinite?: 'error' | 'drop';
+	/** cubic-clamped: f′ at the first and the last x (required) */
+	slopes?: readonly [number, number];
+	/** polynomial-least-squares: degree (default 3) */
+	degree?: number;
+	/** smoothing-spline: fixed λ ≥ 0 in Σ w(y − f)² + λ∫f″²; omitted → chosen by GCV */
+	lambda?: number;
+	/** smoothing-spline, polynomial-least-squares: positive weight per input row (default 1) */
+	weights?: readonly number[];
+	/** softened-linear: width (x units) over which each kink is rounded; default half the smaller neighbouring spacing */
+	width?: number;
+}
+
+/** Numbers a method reports about itself (all optional; present where defined). */
+export interface FitStats {
+	/** smoothing-spline: the λ used */
+	lambda?: number;
+	/** true when λ was chosen by generalised cross-validation */
+	lambdaFromGcv?: boolean;
+	/** effective degrees of freedom tr(A) of the linear smoother y ↦ f(x) */
+	edf?: number;
+	/** the GCV score n·RSS/(n − tr A)² at the λ used */
+	gcv?: number;
+	/** weighted residual sum of squares at the data */
+	rss?: number;
+	/** diagonal of the hat matrix A at the (cleaned, sorted) data; gives leave-one-out residuals in closed form */
+	leverage?: Float64Array;
+	/** polynomial degree where it is a single polynomial */
+	degree?: number;
+}
+
 export interface CurveFit {
 	readonly method: CurveMethod;
 	readonly continuity: Continuity;
@@ -52,4 +93,16 @@ export interface CurveFit {
 	toJSON(): unknown;
 	/** notes made while building (e.g. "x was unsorted; sorted") */
 	readonly notes: readonly string[];
+	/** the settings used (JSON-safe), defaults filled in */
+	readonly options: Readonly<CurveFitOptions>;
+	/** method-specific numbers (λ, tr A, leverage, …) */
+	readonly stats: Readonly<FitStats>;
+	/** number of polynomial pieces (1 for a single global form) */
+	readonly pieces: number;
+	/**
+	 * Value and derivatives of one piece's own polynomial at x (no piece search,
+	 * no extrapolation rule): the exact one-sided limits at a knot are
+	 * evaluatePiece(k − 1, knots[k]) (left) and evaluatePiece(k, knots[k]) (right).
+	 */
+	evaluatePiece(piece: number, x: number): Jet;
 }

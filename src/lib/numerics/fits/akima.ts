@@ -1,0 +1,20 @@
+/**
+ * Akima interpolation: H. Akima, 1970, "A New Method of Interpolation and
+ * Smooth Curve Fitting Based on Local Procedures", J. ACM 17(4):589–602.
+ * A local C1 cubic Hermite interpolant whose knot slopes are weighted means of
+ * neighbouring secants (see akimaSlopes for the exact rule, ties and ends —
+ * identical to SciPy 1.10's Akima1DInterpolator). Unlike that class, our fit
+ * states an extrapolation rule instead of returning NaN outside the data.
+ */
+import { akimaSlopes } from './akimaSlopes';
+import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { prepareData, resolveOptions } from './prepareData';
+import type { CurveFitOptions } from './types';
+
+export function akima(x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions): PiecewisePolynomial {
+	const opts = resolveOptions(options, 'akima');
+	const d = prepareData(x, y, opts, { label: 'akima', minPoints: 3, minReason: 'the end secants are extended from the two nearest' });
+	const t = akimaSlopes(d.x, d.y, false);
+	const c = hermiteCoefficients(d.x, d.y, t);
+	return new PiecewisePolynomial({ method: 'akima', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
+}

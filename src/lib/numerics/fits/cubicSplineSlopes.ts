@@ -1,0 +1,113 @@
+/**
+ * Knot slopes of the interpolating cubic spline (the first-derivative, or
+ * "slope", formulation): C. de Boor, 1978, A Practical Guide to Splines,
+ * Springer, chapter IV. Continuity of f″ at interior knot i gives
+ *
+ *   h_i·s_{i−1} + 2(h_{i−1} + h_i)·s_i + h_{i−1}·s_{i+1} = 3(h_i·m_{i−1} + h_{i−1}·m_i)
+ *
+ * (h = spacing, m = secant), closed by one end condition at each end. The rows
+ * and end rows are those of SciPy's CubicSpline, so both solve the same system.
+ * The tridiagonal system is solved by the Thomas algorithm (L. H. Thomas, 1949,
+ * "Elliptic problems in linear difference equations over a network", Watson
+ * Sci. Comput. Lab. report): no pivoting is needed because every pivot stays
+ * positive — the interior rows are diagonally dominant, and after eliminating
+ * a not-a-knot end row the next pivot is h_0 + h_1 > 0 (see the notes below).
+ */
+
+export type SplineEnd =
+	| { kind: 'natural' }
+	| { kind: 'not-a-knot' }
+	| { kind: 'clamped'; slope: number };
+
+export function cubicSplineSlopes(x: Float64Array, y: Float64Array, start: SplineEnd, end: SplineEnd): Float64Array {
+	const n = x.length;
+	const N = n - 1;
+	const s = new Float64Array(n);
+	if (n === 2) {
+		// One interval: not-a-knot and natural both give the straight line (as SciPy).
+		const m = (y[1] - y[0]) / (x[1] - x[0]);
+		s[0] = start.kind === 'clamped' ? start.slope : m;
+		s[1] = end.kind === 'clamped' ? end.slope : m;
+		if (start.kind === 'natural' && end.kind === 'clamped') s[0] = (3 * m - s[1]) / 2;
+		if (end.kind === 'natural' && start.kind === 'clamped') s[1] = (3 * m - s[0]) / 2;
+		return s;
+	}
+	// cp = modified super-diagonal of the forward sweep; s holds the modified rhs, then the solution.
+	const cp = new Float64Array(n);
+	const notAKnot3 = n === 3 && start.kind === 'not-a-knot' && end.kind === 'not-a-knot';
+
+	// Row 0.
+	let b0: number;
+	let c0: number;
+	let r0: number;
+	const h0 = x[1] - x[0];
+	const h1 = x[2] - x[1];
+	const m0 = (y[1] - y[0]) / h0;
+	const m1 = (y[2] - y[1]) / h1;
+	if (notAKnot3) {
+		// Three points, not-a-knot at both ends: the two conditions coincide; the
+		// spline is the parabola through the points (as SciPy): s0 + s1 = 2·m0.
+		b0 = 1;
+		c0 = 1;
+		r0 = 2 * m0;
+	} else if (start.kind === 'not-a-knot') {
+		const d = x[2] - x[0];
+		b0 = h1;
+		c0 = d;
+		r0 = ((h0 + 2 * d) * h1 * m0 + h0 * h0 * m1) / d;
+	} else if (start.kind === 'natural') {
+		b0 = 2 * h0;
+		c0 = h0;
+		r0 = 3 * (y[1] - y[0]);
+	} else {
+		b0 = 1;
+		c0 = 0;
+		r0 = start.slope;
+	}
+	cp[0] = c0 / b0;
+	s[0] = r0 / b0;
+
+	// Interior rows 1..N−1, fused with the forward sweep.
+	let mPrev = m0;
+	for (let i = 1; i < N; i++) {
+		const hl = x[i] - x[i - 1];
+		const hr = x[i + 1] - x[i];
+		const mr = (y[i + 1] - y[i]) / hr;
+		const denom = 2 * (hl + hr) - hr * cp[i - 1];
+		cp[i] = hl / denom;
+		s[i] = (3 * (hr * mPrev + hl * mr) - hr * s[i - 1]) / denom;
+		mPrev = mr;
+	}
+
+	// Row N.
+	let aN: number;
+	let bN: number;
+	let rN: number;
+	const hN1 = x[N] - x[N - 1];
+	const hN2 = x[N - 1] - x[N - 2];
+	const mN1 = (y[N] - y[N - 1]) / hN1;
+	const mN2 = (y[N - 1] - y[N - 2]) / hN2;
+	if (notAKnot3) {
+		aN = 1;
+		bN = 1;
+		rN = 2 * mN1;
+	} else if (end.kind === 'not-a-knot') {
+		// Pivot h_{N−2} − (h_{N−1} + h_{N−2})·cp_{N−1} stays positive: the previous
+		// pivot is at least 2h_{N−2} + h_{N−1} > h_{N−1} + h_{N−2}.
+		const d = x[N] - x[N - 2];
+		aN = d;
+		bN = hN2;
+		rN = (hN1 * hN1 * mN2 + (2 * d + hN1) * hN2 * mN1) / d;
+	} else if (end.kind === 'natural') {
+		aN = hN1;
+		bN = 2 * hN1;
+		rN = 3 * (y[N] - y[N - 1]);
+	} else {
+		aN = 0;
+		bN = 1;
+		rN = end.slope;
+	}
+	s[N] = (rN - aN * s[N - 1]) / (bN - aN * cp[N - 1]);
+	for (let i = N - 1; i >= 0; i--) s[i] -= cp[i] * s[i + 1];
+	return s;
+}

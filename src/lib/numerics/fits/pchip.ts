@@ -1,0 +1,69 @@
+/**
+ * PCHIP — piecewise cubic Hermite interpolation that keeps monotone data
+ * monotone.
+ *
+ * F. N. Fritsch, R. E. Carlson, 1980, "Monotone Piecewise Cubic Interpolation",
+ * SIAM J. Numer. Anal. 17(2):238–246: a cubic Hermite piece is monotone when its
+ * end slopes, divided by the secant, lie in a region that contains the square
+ * [0, 3]²; slopes are zero wherever the data turn (a local extremum or a flat
+ * secant).
+ * F. N. Fritsch, J. Butland, 1984, "A method for constructing local monotone
+ * piecewise cubic interpolants", SIAM J. Sci. Stat. Comput. 5(2):300–304: the
+ * interior slope is the weighted harmonic mean of the two secants,
+ *     1/t_i = (w1/m_{i−1} + w2/m_i)/(w1 + w2),  w1 = 2h_i + h_{i−1},  w2 = h_i + 2h_{i−1},
+ * which always lies in that region (no later clipping needed), and t_i = 0 when
+ * the secants differ in sign or either is zero.
+ * Ends: the one-sided three-point estimate ((2h0 + h1)m0 − h0·m1)/(h0 + h1), set
+ * to 0 if its sign differs from m0, and to 3m0 if the secants change sign and
+ * it exceeds 3|m0| — the rule of SciPy's PchipInterpolator, which this matches
+ * operation for operation.
+ */
+import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { prepareData, resolveOptions } from './prepareData';
+import type { CurveFitOptions } from './types';
+
+export function pchipSlopes(x: Float64Array, y: Float64Array): Float64Array {
+	const n = x.length;
+	const t = new Float64Array(n);
+	if (n === 2) {
+		t[0] = t[1] = (y[1] - y[0]) / (x[1] - x[0]);
+		return t;
+	}
+	let hl = x[1] - x[0];
+	let ml = (y[1] - y[0]) / hl;
+	const h0 = hl;
+	const m0 = ml;
+	let hr = 0;
+	let mr = 0;
+	for (let i = 1; i < n - 1; i++) {
+		hr = x[i + 1] - x[i];
+		mr = (y[i + 1] - y[i]) / hr;
+		if (Math.sign(ml) !== Math.sign(mr) || ml === 0 || mr === 0) {
+			t[i] = 0;
+		} else {
+			const w1 = 2 * hr + hl;
+			const w2 = hr + 2 * hl;
+			t[i] = 1.0 / ((w1 / ml + w2 / mr) / (w1 + w2));
+		}
+		hl = hr;
+		ml = mr;
+	}
+	t[0] = endSlope(h0, (x[2] - x[1]), m0, (y[2] - y[1]) / (x[2] - x[1]));
+	t[n - 1] = endSlope(hr, x[n - 2] - x[n - 3], mr, (y[n - 2] - y[n - 3]) / (x[n - 2] - x[n - 3]));
+	return t;
+}
+
+function endSlope(h0: number, h1: number, m0: number, m1: number): number {
+	const d = ((2 * h0 + h1) * m0 - h0 * m1) / (h0 + h1);
+	if (Math.sign(d) !== Math.sign(m0)) return 0;
+	if (Math.sign(m0) !== Math.sign(m1) && Math.abs(d) > 3 * Math.abs(m0)) return 3 * m0;
+	return d;
+}
+
+export function pchip(x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions): PiecewisePolynomial {
+	const opts = resolveOptions(options, 'pchip');
+	const d = prepareData(x, y, opts, { label: 'pchip', minPoints: 2 });
+	const t = pchipSlopes(d.x, d.y);
+	const c = hermiteCoefficients(d.x, d.y, t);
+	return new PiecewisePolynomial({ method: 'pchip', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
+}

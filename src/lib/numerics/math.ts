@@ -1,0 +1,38 @@
+/**
+ * Shared numeric constants and small helpers for src/lib/numerics.
+ * Plain TypeScript: no DOM, server or framework imports.
+ */
+
+/** Unit roundoff of IEEE-754 binary64 (2^-52). */
+export const EPSILON = Number.EPSILON;
+/** √ε: the natural relative step for one-sided differences. */
+export const SQRT_EPSILON = Math.sqrt(Number.EPSILON);
+/** ∛ε: the step that balances truncation and rounding in a central difference. */
+export const CBRT_EPSILON = Math.cbrt(Number.EPSILON);
+/** ε^(1/4): the step for a central second difference. */
+export const QRT_EPSILON = Math.sqrt(Math.sqrt(Number.EPSILON));
+
+/**
+ * Seeded pseudo-random numbers in [0, 1): Mulberry32 (T. Ettinger, 2017, public domain).
+ * Used wherever an audit needs reproducible "random" points; not for cryptography.
+ */
+export function mulberry32(seed: number): () => number {
+	let a = seed >>> 0;
+	return () => {
+		a = (a + 0x6d2b79f5) >>> 0;
+		let t = a;
+		t = Math.imul(t ^ (t >>> 15), t | 1);
+		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+	};
+}
+
+/** Largest |v| over an array (0 for an empty one). */
+export function maxAbs(v: ArrayLike<number>): number {
+	let m = 0;
+	for (let i = 0; i < v.length; i++) {
+		const a = Math.abs(v[i]);
+		if (a > m) m = a;
+	}
+	return m;
+}
