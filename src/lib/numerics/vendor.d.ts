@@ -14,6 +14,11 @@ declare module 'fmin' {
 	export function gradientDescentLineSearch(...args: unknown[]): unknown;
 	export function bisect(f: (x: number) => number, a: number, b: number, parameters?: Record<string, unknown>): number;
 }
+// fmin's package entry is a UMD build under "type": "module"; its ESM entry
+// file loads under vite/vitest (ssr.noExternal) and tsx alike.
+declare module 'fmin/index.js' {
+	export * from 'fmin';
+}
 declare module 'quadprog' {
 	export function solveQP(
 		Dmat: number[][],

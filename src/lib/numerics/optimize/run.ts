@@ -257,10 +257,21 @@ export class Run {
 		return Math.max(0, this.path.x.length - 1);
 	}
 
-	/** clip x into the bounds */
-	project(x: number[]): number[] {
+	/**
+	 * Clip x into the bounds. Values within ~1e-14 (relative) of a bound are
+	 * snapped onto it, so that a step computed to end on a bound (x + (lo − x))
+	 * lands exactly there despite rounding and the bound is seen as active.
+	 */
+	project(x: ArrayLike<number>): number[] {
 		const out = new Array<number>(this.n);
-		for (let i = 0; i < this.n; i++) out[i] = Math.min(this.hi[i], Math.max(this.lo[i], x[i]));
+		for (let i = 0; i < this.n; i++) {
+			let v = Math.min(this.hi[i], Math.max(this.lo[i], x[i]));
+			const lo = this.lo[i];
+			const hi = this.hi[i];
+			if (lo > -Infinity && v - lo <= 1e-14 * (1 + Math.abs(lo))) v = lo;
+			else if (hi < Infinity && hi - v <= 1e-14 * (1 + Math.abs(hi))) v = hi;
+			out[i] = v;
+		}
 		return out;
 	}
 
@@ -331,7 +342,7 @@ export class Run {
 
 	evaluateConstraints(x: number[]): { values: number[]; grads: number[][] } {
 		const cs = this.problem.objective.constraints ?? [];
-		this.counts.constraints++;
+		if (cs.length) this.counts.constraints++;
 		const values: number[] = [];
 		const grads: number[][] = [];
 		for (const c of cs) {

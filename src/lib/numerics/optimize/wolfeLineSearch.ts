@@ -50,8 +50,8 @@ export function wolfeLineSearch(run: Run, p0: Point, d: number[], opts: LineSear
 
 	const at = (a: number): Point => {
 		const y = new Array<number>(n);
-		for (let i = 0; i < n; i++) y[i] = Math.min(run.hi[i], Math.max(run.lo[i], x[i] + a * d[i]));
-		return run.evaluate(y);
+		for (let i = 0; i < n; i++) y[i] = x[i] + a * d[i];
+		return run.evaluate(run.hasBounds ? run.project(y) : y);
 	};
 	const slope = (q: Point): number => {
 		const g = q.grad;
