@@ -59,7 +59,7 @@ interface CgState {
 }
 
 export function conjugateGradient(problem: Problem, options: OptimizeOptions, start: number[]): RunResult {
-	const run = new Run(problem, 'conjugate-gradient', options);
+	const run: Run = new Run(problem, 'conjugate-gradient', options);
 	return run.guard(() => {
 		const n = run.n;
 		const { stepTol } = run.settings;

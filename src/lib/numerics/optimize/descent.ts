@@ -34,11 +34,14 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 		let fPrev = NaN;
 		let flat = 0;
 		let retried = false;
+		// a no-progress verdict waits until the new point has had its first-order test
+		let stall = '';
 		for (;;) {
 			const x = p.x;
 			const g = p.grad;
 			const pg = run.projectedGradNorm(x, g);
 			if (run.firstOrderMet(p, pg)) return conclude(run, p, `‖projected ∇f‖∞ = ${pg.toExponential(2)} within tolerance`);
+			if (stall) run.stop('stalled', `${stall} (‖projected ∇f‖∞ = ${pg.toExponential(2)})`);
 			run.beginIteration();
 			const free = new Array<boolean>(n);
 			for (let i = 0; i < n; i++) free[i] = !((x[i] <= run.lo[i] && g[i] > 0) || (x[i] >= run.hi[i] && g[i] < 0));
@@ -115,11 +118,10 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 			fPrev = p.f;
 			const df = Math.abs(q.f - p.f);
 			p = q;
-			if (stepInf <= stepTol * scaleOf(p.x))
-				run.stop('stalled', `no progress: step ${stepInf.toExponential(2)} below the step tolerance (‖projected ∇f‖∞ = ${run.projectedGradNorm(p.x, p.grad).toExponential(2)})`);
+			if (stepInf <= stepTol * scaleOf(p.x)) stall = `no progress: step ${stepInf.toExponential(2)} below the step tolerance`;
 			// relative test: near f* = 0 every decrease is still progress
 			flat = df <= fTol * Math.abs(p.f) ? flat + 1 : 0;
-			if (flat >= 3) run.stop('stalled', `no progress: f unchanged over 3 iterations (‖projected ∇f‖∞ = ${run.projectedGradNorm(p.x, p.grad).toExponential(2)})`);
+			if (flat >= 3) stall = 'no progress: f unchanged over 3 iterations';
 		}
 	});
 }

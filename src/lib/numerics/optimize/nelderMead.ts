@@ -48,7 +48,7 @@ interface HistoryState {
 
 export function nelderMead(problem: Problem, options: OptimizeOptions, start: number[]): RunResult {
 	const n = problem.objective.n;
-	const run = new Run(problem, 'nelder-mead', options, { maxIterations: 200 * Math.max(1, n), stepTol: 1e-8, fTol: 1e-12 });
+	const run: Run = new Run(problem, 'nelder-mead', options, { maxIterations: 200 * Math.max(1, n), stepTol: 1e-8, fTol: 1e-12 });
 	return run.guard(() => {
 		const { stepTol, fTol } = run.settings;
 		const first = run.evaluate(run.prepareStart(start));

@@ -43,7 +43,7 @@ import type { KktResiduals, OptimizeOptions, Problem, RunResult } from './types'
 const ETA = 1e-4;
 
 export function sqp(problem: Problem, options: OptimizeOptions, start: number[]): RunResult {
-	const run = new Run(problem, 'sqp', options, { maxIterations: 500 });
+	const run: Run = new Run(problem, 'sqp', options, { maxIterations: 500 });
 	return run.guard(() => {
 		const n = run.n;
 		const cs = problem.objective.constraints ?? [];
@@ -84,6 +84,8 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 		let firstWeights = true;
 		let slow = 0;
 		let retryNote = '';
+		// a no-progress verdict waits until the new point has had its KKT test
+		let stall = '';
 
 		const linearized = (Cq: { values: number[]; grads: number[][] }): LinearizedConstraint[] =>
 			cs.map((c, i) => ({ kind: c.kind, value: Cq.values[i], grad: Cq.grads[i] }));
@@ -145,6 +147,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 					});
 				}
 			}
+			if (stall) run.stop('stalled', stall);
 			run.beginIteration();
 
 			// direction and the merit's directional derivative
@@ -299,7 +302,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 			p = q;
 			C = Cq;
 			slow = moved <= tiny ? slow + 1 : 0;
-			if (slow >= 2) run.stop('stalled', `no progress: steps below the step tolerance (violation ${run.violation(C.values).toExponential(2)})`);
+			if (slow >= 2) stall = `no progress: steps below the step tolerance (violation ${run.violation(C.values).toExponential(2)})`;
 		}
 	});
 }

@@ -1,0 +1,11 @@
+export { optimize, OPTIMIZERS } from './optimize';
+export { sqp } from './sqp';
+export { bfgs } from './bfgs';
+export { steepestDescent } from './steepestDescent';
+export { conjugateGradient } from './conjugateGradient';
+export { nelderMead } from './nelderMead';
+export { newton } from './newton';
+export { makeStarts, listStarts, gridStarts, latinHypercubeStarts, mulberry32, MAX_STARTS } from './starts';
+export type { StartSpec, Box } from './starts';
+export { DEFAULT_SETTINGS } from './run';
+export type * from './types';
