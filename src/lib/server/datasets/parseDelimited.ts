@@ -2,7 +2,9 @@ import Papa from 'papaparse';
 import { buildTable, type RawRecord } from './buildTable';
 import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
 import { MAX_ROWS } from './limits';
-import type { ErrorDetail, ParsedTable } from './types';
+import { rowList } from './rowList';
+import { toCell } from './parseNumber';
+import type { Cell, ErrorDetail, ParsedTable } from './types';
 
 const CANDIDATES = [',', ';', '\t', '|'];
 // Rows read to guess the delimiter; enough to outvote a stray title line.
@@ -45,11 +47,18 @@ export function parseDelimited(text: string, options: DelimitedOptions = {}): Pa
 		delimiter,
 		step(result, parser) {
 			recordNumber++;
-			const cells = result.data;
 			for (const e of result.errors) {
 				if (e.type === 'Quotes') quoteProblems.push({ row: recordNumber, problem: quoteProblem(e.code) });
 			}
-			if (cells.every((c) => c.trim() === '')) {
+			const fields = result.data;
+			const cells: Cell[] = new Array(fields.length);
+			let blank = true;
+			for (let j = 0; j < fields.length; j++) {
+				const cell = toCell(fields[j]);
+				if (cell !== null) blank = false;
+				cells[j] = cell;
+			}
+			if (blank) {
 				blankRows.push(recordNumber);
 				return;
 			}
@@ -104,7 +113,7 @@ export function detectDelimiter(text: string, preferred = ','): string | null {
 	let bestWidth = 0;
 	for (const candidate of order) {
 		const rows = Papa.parse<string[]>(sample, { delimiter: candidate }).data.filter(
-			(r) => !r.every((c) => c.trim() === '')
+			(r) => !r.every(isBlank)
 		);
 		if (rows.length === 0) continue;
 		const { mode, share } = modalCount(rows.map((r) => trimmedLength(r)));
@@ -127,11 +136,11 @@ function checkFieldCounts(records: RawRecord[], delimiter: string): void {
 	// Trailing fields that are empty in every usual row ("1,2,3," throughout) are not columns.
 	let width = 0;
 	for (const r of records) {
-		if (r.cells.length === usual) width = Math.max(width, trimmedLength(r.cells as string[]));
+		if (r.cells.length === usual) width = Math.max(width, trimmedLength(r.cells));
 	}
 	const bad: { row: number; count: number; other: string | null }[] = [];
 	for (const record of records) {
-		const cells = record.cells as string[];
+		const cells = record.cells;
 		const count = trimmedLength(cells);
 		if (count <= width && cells.length >= width) {
 			cells.length = width;
@@ -167,7 +176,7 @@ function checkFieldCounts(records: RawRecord[], delimiter: string): void {
 	);
 }
 
-function otherDelimiter(cells: string[], delimiter: string, width: number): string | null {
+function otherDelimiter(cells: Cell[], delimiter: string, width: number): string | null {
 	const line = cells.join(delimiter);
 	for (const other of CANDIDATES) {
 		if (other === delimiter || !line.includes(other)) continue;
@@ -177,10 +186,14 @@ function otherDelimiter(cells: string[], delimiter: string, width: number): stri
 	return null;
 }
 
+function isBlank(cell: Cell): boolean {
+	return cell === null || (typeof cell === 'string' && cell.trim() === '');
+}
+
 /** Field count without trailing empty fields. */
-function trimmedLength(cells: string[]): number {
+function trimmedLength(cells: readonly Cell[]): number {
 	let n = cells.length;
-	while (n > 0 && cells[n - 1].trim() === '') n--;
+	while (n > 0 && isBlank(cells[n - 1])) n--;
 	return n;
 }
 
@@ -207,12 +220,4 @@ function quoteProblem(code: string): string {
 
 export function showDelimiter(d: string): string {
 	return d === '\t' ? 'tab' : `'${d}'`;
-}
-
-/** "row 4", "rows 3 and 5", "rows 3, 5, 8, … (14 rows)". */
-export function rowList(rows: number[], max = 10): string {
-	if (rows.length === 1) return `row ${rows[0]}`;
-	if (rows.length === 2) return `rows ${rows[0]} and ${rows[1]}`;
-	if (rows.length <= max) return `rows ${rows.slice(0, -1).join(', ')} and ${rows[rows.length - 1]}`;
-	return `rows ${rows.slice(0, max).join(', ')}, … (${rows.length} rows)`;
 }

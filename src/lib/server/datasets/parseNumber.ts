@@ -3,11 +3,24 @@ import type { Cell } from './types';
 // Plain decimal with optional exponent: 12, -0.5, .5, 5., 1e-3, +2.5E+4.
 const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
-/** The number in a cell, or NaN when the cell is empty or not a plain decimal number. */
+/** The number in a cell, or NaN when the cell is empty or not a plain, finite decimal number. */
 export function parseNumber(cell: Cell): number {
 	if (typeof cell === 'number') return Number.isFinite(cell) ? cell : NaN;
 	if (cell === null || !DECIMAL.test(cell)) return NaN;
-	return Number(cell);
+	const v = Number(cell);
+	return Number.isFinite(v) ? v : NaN;
+}
+
+/**
+ * A field of a text table as a cell: trimmed, null when blank, a number when
+ * it is a plain decimal number. Converting while reading keeps a large table
+ * as arrays of doubles rather than as millions of small strings.
+ */
+export function toCell(field: string): Cell {
+	const text = field.trim();
+	if (text === '') return null;
+	const v = parseNumber(text);
+	return Number.isNaN(v) ? text : v;
 }
 
 export type NonNumberCode = 'thousands-separator' | 'decimal-comma' | 'non-numeric';
@@ -15,7 +28,8 @@ export type NonNumberCode = 'thousands-separator' | 'decimal-comma' | 'non-numer
 // "1,234" is either a thousands group or a decimal comma; we cannot tell which.
 const AMBIGUOUS_COMMA = /^[+-]?\d{1,3},\d{3}$/;
 const COMMA_THOUSANDS = /^[+-]?\d{1,3}(?:,\d{3})+(?:\.\d+)?(?:[eE][+-]?\d+)?$/;
-const DOT_THOUSANDS = /^[+-]?\d{1,3}(?:\.\d{3}){2,}(?:,\d+)?$/;
+// "1.234.567" or "1.234,5": dots grouping thousands, as some locales write them
+const DOT_THOUSANDS = /^[+-]?\d{1,3}(?:(?:\.\d{3}){2,}|(?:\.\d{3})+,\d+)$/;
 const SPACE_THOUSANDS = /^[+-]?\d{1,3}(?:[ '\u00a0\u2009\u202f]\d{3})+(?:[.,]\d+)?$/;
 const DECIMAL_COMMA = /^[+-]?\d*,\d+(?:[eE][+-]?\d+)?$/;
 const PERCENT = /^[+-]?(?:\d+\.?\d*|\.\d+)\s*%$/;
@@ -41,6 +55,7 @@ export function describeNonNumber(text: string): { code: NonNumberCode; problem:
 			problem: `${quoted} has a decimal comma, which is not accepted — write ${text.replace(',', '.')}`
 		};
 	}
+	if (DECIMAL.test(text)) return { code: 'non-numeric', problem: `${quoted} is out of range for a number` };
 	if (PERCENT.test(text)) {
 		return { code: 'non-numeric', problem: `${quoted} has a % sign — give the number alone and put % in the unit` };
 	}

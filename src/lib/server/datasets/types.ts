@@ -7,7 +7,10 @@ export type Role = 'input' | 'output';
 
 export type Shape = 'curve' | 'grid' | 'scatter';
 
-/** One cell as read: text from CSV/TSV, number or text from XLSX, number from JSON, null when empty. */
+/**
+ * One cell as read, trimmed: a number when the file held a plain decimal
+ * number (or a numeric XLSX/JSON value), otherwise the text; null when empty.
+ */
 export type Cell = string | number | null;
 
 export interface ParsedColumn {
