@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // One entry point for `npm start`, `npm run dev`, `npm test` and `npm run worker`.
 // Plain JavaScript on purpose: it runs before dependencies are installed.
-import { spawn, spawnSync, execFileSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, statSync, readdirSync, mkdtempSync, rmSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import os from 'node:os';
