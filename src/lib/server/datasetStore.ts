@@ -1,0 +1,139 @@
+// Datasets in PostgreSQL: metadata + column-major float64 data in one row.
+import type { Db } from './db';
+import type { Role, Shape } from './datasets/types';
+
+export type DatasetColumn = { name: string; unit: string | null; role: Role };
+export type DatasetMeta = {
+	id: string;
+	workspaceId: string;
+	name: string;
+	version: number;
+	shape: Shape;
+	shapeReason: string;
+	description: string;
+	columns: DatasetColumn[];
+	rowCount: number;
+	sourceFormat: string;
+	sourceFilename: string | null;
+	sourceSha256: string;
+	notes: string[];
+	warnings: string[];
+	createdBy: string | null;
+	createdAt: Date;
+	archivedAt: Date | null;
+};
+
+const META_COLUMNS = [
+	'id', 'workspace_id', 'name', 'version', 'shape', 'shape_reason', 'description', 'columns', 'row_count',
+	'source_format', 'source_filename', 'source_sha256', 'notes', 'warnings', 'created_by', 'created_at', 'archived_at'
+];
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function toMeta(r: any): DatasetMeta {
+	return {
+		id: r.id,
+		workspaceId: r.workspace_id,
+		name: r.name,
+		version: r.version,
+		shape: r.shape,
+		shapeReason: r.shape_reason,
+		description: r.description,
+		columns: r.columns,
+		rowCount: r.row_count,
+		sourceFormat: r.source_format,
+		sourceFilename: r.source_filename,
+		sourceSha256: r.source_sha256,
+		notes: r.notes,
+		warnings: r.warnings,
+		createdBy: r.created_by,
+		createdAt: r.created_at,
+		archivedAt: r.archived_at
+	};
+}
+
+/** Pack columns (each rowCount long) column-major into little-endian float64 bytes. */
+export function packColumns(columns: ArrayLike<number>[], rowCount: number): Buffer {
+	const out = new Float64Array(columns.length * rowCount);
+	columns.forEach((c, i) => out.set(Array.from(c as ArrayLike<number>), i * rowCount));
+	// Float64Array is platform-endian; every platform Node supports here is little-endian.
+	return Buffer.from(out.buffer, out.byteOffset, out.byteLength);
+}
+
+export function unpackColumns(bytes: Buffer, columnCount: number, rowCount: number): Float64Array[] {
+	const copy = new Float64Array(columnCount * rowCount);
+	new Uint8Array(copy.buffer).set(bytes);
+	return Array.from({ length: columnCount }, (_, i) => copy.subarray(i * rowCount, (i + 1) * rowCount));
+}
+
+export type NewDataset = {
+	workspaceId: string;
+	name: string;
+	description?: string;
+	shape: Shape;
+	shapeReason: string;
+	columns: DatasetColumn[];
+	data: ArrayLike<number>[];
+	rowCount: number;
+	sourceFormat: string;
+	sourceFilename: string | null;
+	sourceBytes: Uint8Array | null;
+	sourceSha256: string;
+	notes: string[];
+	warnings: string[];
+	createdBy: string | null;
+};
+
+/**
+ * Store a dataset as the next version of its name, in one statement: the row is
+ * written whole or not at all. The version is chosen under a per-name advisory
+ * lock so two simultaneous uploads of the same name get distinct versions.
+ */
+export async function create(db: Db, d: NewDataset): Promise<DatasetMeta> {
+	const run = async (trx: Db) => {
+		await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?))', [`${d.workspaceId}/${d.name}`]);
+		const prev = await trx('datasets').where({ workspace_id: d.workspaceId, name: d.name }).max<{ v: number | null }>('version as v').first();
+		const [row] = await trx('datasets')
+			.insert({
+				workspace_id: d.workspaceId,
+				name: d.name,
+				version: (prev?.v ?? 0) + 1,
+				shape: d.shape,
+				shape_reason: d.shapeReason,
+				description: d.description ?? '',
+				columns: JSON.stringify(d.columns),
+				row_count: d.rowCount,
+				data: packColumns(d.data, d.rowCount),
+				source_format: d.sourceFormat,
+				source_filename: d.sourceFilename,
+				source_bytes: d.sourceBytes ? Buffer.from(d.sourceBytes) : null,
+				source_sha256: d.sourceSha256,
+				notes: JSON.stringify(d.notes),
+				warnings: JSON.stringify(d.warnings),
+				created_by: d.createdBy
+			})
+			.returning(META_COLUMNS);
+		return toMeta(row);
+	};
+	return 'isTransaction' in db && db.isTransaction ? run(db) : (db as import('knex').Knex).transaction(run);
+}
+
+export async function get(db: Db, id: string): Promise<DatasetMeta | null> {
+	if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+	const row = await db('datasets').where({ id }).first(META_COLUMNS);
+	return row ? toMeta(row) : null;
+}
+
+/** Metadata plus the numbers, one Float64Array per column in column order. */
+export async function getWithData(db: Db, id: string): Promise<(DatasetMeta & { data: Float64Array[] }) | null> {
+	if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+	const row = await db('datasets').where({ id }).first([...META_COLUMNS, 'data']);
+	if (!row) return null;
+	const meta = toMeta(row);
+	return { ...meta, data: unpackColumns(row.data, meta.columns.length, meta.rowCount) };
+}
+
+export async function listForWorkspace(db: Db, workspaceId: string, includeArchived = false): Promise<DatasetMeta[]> {
+	const q = db('datasets').where({ workspace_id: workspaceId }).orderBy('created_at', 'desc').select(META_COLUMNS);
+	if (!includeArchived) q.whereNull('archived_at');
+	return (await q).map(toMeta);
+}
