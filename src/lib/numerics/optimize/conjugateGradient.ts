@@ -26,9 +26,11 @@
  *   iteration and time budgets, and detects failure: after two successive
  *   failed line searches (the second along −∇f, after fmin's own reset) fmin is
  *   restarted with s rescaled to the last accepted step (its fixed 16 halvings
- *   cannot reach a step much shorter than its first trial); when two such
- *   restarts in a row make no progress the run is `stalled`. If fmin returns
- *   without our test met, it is restarted the same way.
+ *   cannot reach a step much shorter than its first trial), from the best point
+ *   it evaluated (its strong-Wolfe search rejects points that only decrease f,
+ *   as next to a kink); when two such restarts in a row make no progress the
+ *   run is `stalled`. If fmin returns without our test met, it is restarted the
+ *   same way.
  * - A non-finite f is passed to fmin as +∞ with a zero gradient, so its line
  *   search backs off.
  */
@@ -156,7 +158,14 @@ export function conjugateGradient(problem: Problem, options: OptimizeOptions, st
 				if (err instanceof Converged) return conclude(run, err.point, err.reason);
 				if (!(err instanceof Restart)) throw err;
 			}
-			// fmin returned or failed without our test met: restart along −∇f from its last point
+			// fmin returned or failed without our test met: restart along −∇f from the best point seen
+			// (fmin's strong-Wolfe search rejects points that only decrease f, e.g. next to a kink)
+			if (best.f < current.f && best !== current) {
+				lastStep = normInf(best.x.map((v, i) => v - current.x[i]));
+				run.record(best);
+				current = best;
+				fruitless = 0;
+			}
 			if (current === origin && ++fruitless >= 2)
 				run.stop('stalled', `line search failed from ${fmt(current.x)}, also after restarts along −∇f (‖projected ∇f‖∞ = ${run.projectedGradNorm(current.x, current.grad).toExponential(2)}): a kink, a step or noise`);
 			run.beginIteration();

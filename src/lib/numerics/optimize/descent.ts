@@ -70,10 +70,10 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 				if (d[i] < 0 && run.lo[i] > -Infinity) alphaMax = Math.min(alphaMax, (run.lo[i] - x[i]) / d[i]);
 				else if (d[i] > 0 && run.hi[i] < Infinity) alphaMax = Math.min(alphaMax, (run.hi[i] - x[i]) / d[i]);
 			}
-			// initial trial step: 1 for quasi-Newton once scaled; otherwise N&W eq. 3.60
+			// initial trial step: 1 for quasi-Newton once H has a scale; otherwise N&W eq. 3.60
 			let alpha0: number;
 			if (method === 'bfgs' && H) alpha0 = 1;
-			else if (Number.isFinite(fPrev) && fPrev > p.f) alpha0 = Math.min(method === 'bfgs' ? 1 : Infinity, (1.01 * 2 * (p.f - fPrev)) / dphi0);
+			else if (Number.isFinite(fPrev) && fPrev > p.f) alpha0 = (1.01 * 2 * (p.f - fPrev)) / dphi0;
 			else alpha0 = Math.min(1, 1 / norm2(d));
 			if (!(alpha0 > 0) || !Number.isFinite(alpha0)) alpha0 = 1;
 			const ls = wolfeLineSearch(run, p, d, { alpha0, alphaMax, c2: method === 'bfgs' ? 0.9 : 0.1 });

@@ -7,8 +7,8 @@
  * How the wrapper drives fmin
  * - Variables: fmin starts from u = (1, …, 1) with `nonZeroDelta: 2`, and the
  *   wrapper maps u to x = P(b + h∘(u − 1)), so the first simplex is b and
- *   b + hᵢeᵢ. Step hᵢ: 5 % of |bᵢ|, or 0.00025 when bᵢ = 0 (SciPy's rule),
- *   pointed into the box.
+ *   b + hᵢeᵢ. Step hᵢ: 5 % of |bᵢ|, at least 0.00025 (SciPy's rule, with the
+ *   floor also for tiny nonzero bᵢ), pointed into the box.
  * - Bounds by projection: every point fmin asks for is clamped into the box P
  *   before the objective sees it (fmin minimizes f∘P, flat outside the box);
  *   the simplex size is measured between the projected points.
@@ -28,7 +28,6 @@
  * Counting: Nelder–Mead reads no gradients, so evaluations.grad is 0.
  */
 import { nelderMead as fminNelderMead } from 'fmin/index.js';
-import { normInf } from './linalg';
 import { fmt, Run, scaleOf, type Point } from './run';
 import { conclude } from './secondOrder';
 import type { OptimizeOptions, Problem, RunResult } from './types';
@@ -56,7 +55,8 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 		run.record(first);
 		let best: Point = first;
 		let b = first.x.slice();
-		let h = b.map((v) => (v !== 0 ? 0.05 * Math.abs(v) : 0.00025));
+		// at least 0.00025 per axis (a tiny or denormal coordinate would give a degenerate simplex)
+		let h = b.map((v) => Math.max(0.05 * Math.abs(v), 0.00025));
 		let restarts = 0;
 		for (;;) {
 			for (let i = 0; i < n; i++) if (b[i] + h[i] > run.hi[i]) h[i] = -h[i];
@@ -120,12 +120,15 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 			run.beginIteration();
 			restarts++;
 			const xb = best.x;
+			const floor = 0.01 * stepTol * scaleOf(best.x);
 			const next = h.map((hi, i) => {
 				let ext = 0;
 				for (const v of lastSimplex) ext = Math.max(ext, Math.abs(v[i] - xb[i]));
-				return ext > 0 ? 0.5 * ext : 0.5 * Math.abs(hi);
+				// never let one axis collapse to zero while others are still open
+				return Math.max(ext > 0 ? 0.5 * ext : 0.5 * Math.abs(hi), floor);
 			});
-			if (normInf(next) === 0) run.stop('stalled', 'the simplex collapsed to a point without meeting the f tolerance');
+			if (h.every((v) => Math.abs(v) <= floor) && next.every((v) => v <= floor))
+				run.stop('stalled', `the simplex collapsed to ${fmt(best.x)} without meeting the f tolerance: a step or discontinuity`);
 			b = xb.slice();
 			h = next;
 			if (restarts === 1) run.notes.push('simplex shrinks are done by restarting fmin around the best vertex');

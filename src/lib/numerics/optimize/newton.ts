@@ -152,6 +152,8 @@ function solveScalar(run: Run, start: number[]): RunResult {
 		let ra = NaN;
 		let probedBounds = false;
 		let rPrev = Infinity;
+		let bestAbs = Math.abs(r);
+		let noImprove = 0;
 		const setBracket = (x1: number, r1: number, x2: number, r2: number) => {
 			if (x1 < x2) [a, ra, b] = [x1, r1, x2];
 			else [a, ra, b] = [x2, r2, x1];
@@ -217,6 +219,15 @@ function solveScalar(run: Run, start: number[]): RunResult {
 				run.stop('stalled', `f − target changes sign within [${a.toPrecision(10)}, ${b.toPrecision(10)}] but |f − target| stays ${Math.abs(r).toExponential(2)}: f jumps across the target (a step or discontinuity)`);
 			if (!Number.isFinite(a) && moved <= widthTol(next))
 				run.stop('stalled', `no progress at ${fmt(p.x)}: |f − target| = ${Math.abs(r).toExponential(2)}`);
+			// without a bracket, Newton can wander (e.g. bounce between the bounds): look for one, else stop
+			if (Math.abs(r) < bestAbs) {
+				bestAbs = Math.abs(r);
+				noImprove = 0;
+			} else noImprove++;
+			if (!Number.isFinite(a) && noImprove >= 4) {
+				if (probedBounds || !probeBounds(p.x[0], r))
+					run.stop('stalled', `no root found: |f − target| stops decreasing (best ${bestAbs.toExponential(2)}) and no sign change was found${Number.isFinite(lo) || Number.isFinite(hi) ? ' at the bounds' : ''}`);
+			}
 		}
 	});
 }

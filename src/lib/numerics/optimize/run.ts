@@ -370,23 +370,44 @@ export class Run {
 		return v;
 	}
 
+	/**
+	 * The scale of f for relative tolerances: max(1, min(|f(start)|, |f|)).
+	 * Relative, so that the test does not depend on f's units; the smaller of
+	 * the two, so that a run drifting to f → −∞ is not declared converged by a
+	 * tolerance growing with |f|.
+	 */
+	fScale(p: Point): number {
+		const f0 = this.path.merit.length ? Math.abs(this.path.merit[0]) : Math.abs(p.f);
+		const v = Math.min(Number.isFinite(f0) ? f0 : Infinity, Math.abs(p.f));
+		return Number.isFinite(v) ? Math.max(1, v) : 1;
+	}
+
+	/** the first-order tolerance at p: gradTol·fScale(p) */
+	gradTolAt(p: Point): number {
+		return this.settings.gradTol * this.fScale(p);
+	}
+
 	/** is `measure` (a gradient or KKT residual) small enough at p — or, for `solve` as least squares, is the target met? */
 	firstOrderMet(p: Point, measure: number): boolean {
 		if (this.mode === 'least-squares' && this.residualMet(p)) return true;
-		return measure <= this.settings.gradTol * Math.max(1, Math.abs(p.f));
+		return measure <= this.gradTolAt(p);
 	}
 
 	residualMet(p: Point): boolean {
 		return Math.abs(p.userF - this.target) <= this.settings.residualTol * Math.max(1, Math.abs(this.target));
 	}
 
-	/** ‖x − P(x − g)‖∞: the projected gradient (plain ‖g‖∞ without bounds) */
+	/**
+	 * ‖x − P(x − g)‖∞: the projected gradient (plain ‖g‖∞ without bounds),
+	 * computed per component as min(|gᵢ|, room to the bound it points to) so
+	 * that a huge |xᵢ| cannot absorb gᵢ in rounding.
+	 */
 	projectedGradNorm(x: number[], g: number[]): number {
 		let m = 0;
 		for (let i = 0; i < this.n; i++) {
-			const t = Math.min(this.hi[i], Math.max(this.lo[i], x[i] - g[i]));
-			const v = Math.abs(x[i] - t);
-			if (!(v <= m)) m = v;
+			const gi = g[i];
+			const v = gi > 0 ? Math.min(gi, x[i] - this.lo[i]) : gi < 0 ? Math.min(-gi, this.hi[i] - x[i]) : gi === 0 ? 0 : NaN;
+			if (!(v <= m)) m = v; // NaN propagates
 		}
 		return m;
 	}
@@ -452,6 +473,14 @@ export class Run {
 		reason: string,
 		extra: { multipliers?: Multipliers | null; kkt?: KktResiduals | null } = {}
 	): RunResult {
+		if (point && this.path.x.length === 0) {
+			// ended at the start (e.g. f not finite there): the path still shows it
+			try {
+				this.record(point);
+			} catch (err) {
+				if (!(err instanceof Stop)) throw err;
+			}
+		}
 		const x = point ? point.x.slice() : this.startX.slice();
 		const f = point ? point.userF : NaN;
 		const g = point ? point.peekUserGrad() : new Array<number>(this.n).fill(NaN);

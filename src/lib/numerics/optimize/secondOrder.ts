@@ -12,8 +12,11 @@
  * else by forward differences of ∇L along Z (central second differences of f
  * for the derivative-free Nelder–Mead), and ask for λ_min ≥ −tol. When λ_min is
  * numerically zero (a degenerate minimum such as x⁴, a flat plateau, or a
- * maximum such as −x⁴) we probe L at ±h along the eigenvector of λ_min and fail
- * if it drops. The check's evaluations are counted like any other.
+ * maximum such as −x⁴, a point on the edge of a step) we probe L at ±h along
+ * every eigenvector of a near-zero eigenvalue and fail if it drops; the
+ * derivative-free check also probes f at ±h along each direction of Z (a
+ * collapsed simplex can sit on a slope). The check's evaluations are counted
+ * like any other.
  */
 import { EPS, dot, nullSpaceBasis, norm2, normInf, symmetricEigen } from './linalg';
 import { fmt, type Point, type Run } from './run';
@@ -41,7 +44,7 @@ interface Verdict {
 
 function activeBoundNormals(run: Run, p: Point, g: number[] | null): number[][] {
 	const out: number[][] = [];
-	const tolG = run.settings.gradTol * Math.max(1, Math.abs(p.f));
+	const tolG = run.gradTolAt(p);
 	for (let i = 0; i < run.n; i++) {
 		const atLo = p.x[i] <= run.lo[i];
 		const atHi = p.x[i] >= run.hi[i];
@@ -107,9 +110,12 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			const q = tryEval(shifted(run, p.x, v, t));
 			return q ? valueL(q) : NaN;
 		};
+		const drop = 1e-12 * Math.max(1, Math.abs(L0));
 		for (let a = 0; a < k; a++) {
 			const fp = side(Z[a], h);
 			const fm = side(Z[a], -h);
+			// derivative-free first-order probe: no descent along ±z (a simplex can collapse on a slope)
+			if (fp < L0 - drop || fm < L0 - drop) return { ok: false, detail: `f decreases from the point along ${fmt(Z[a])}` };
 			if (Number.isFinite(fp) && Number.isFinite(fm)) H[a][a] = (fp - 2 * L0 + fm) / (h * h);
 			else if (Number.isFinite(fp)) H[a][a] = (side(Z[a], 2 * h) - 2 * fp + L0) / (h * h);
 			else if (Number.isFinite(fm)) H[a][a] = (side(Z[a], -2 * h) - 2 * fm + L0) / (h * h);
@@ -153,14 +159,20 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			detail: `negative curvature ${lmin.toPrecision(3)} along ${fmt(vmin)}: a ${values[k - 1] > tol ? 'saddle' : 'maximum'}, not a minimum`
 		};
 	if (lmin > tol) return { ok: true, detail: `curvature ≥ ${lmin.toPrecision(3)}` };
-	// degenerate: probe along the flattest direction
+	// degenerate: probe every flat direction (eigenvectors with |λ| ≤ tol) at ±h
 	const h2 = 1e-3 * xs;
-	const slope = g0 ? Math.abs(dot(g0, vmin)) : 0;
-	const allowed = 1e-12 * Math.max(1, Math.abs(L0)) + 1.01 * h2 * slope;
-	for (const t of [h2, -h2]) {
-		const q = tryEval(shifted(run, p.x, vmin, t));
-		if (q && valueL(q) < L0 - allowed)
-			return { ok: false, detail: `f decreases from the point along ${fmt(vmin)} (flat curvature, higher-order descent)` };
+	const gTol = run.gradTolAt(p);
+	for (let e = 0; e < k && Math.abs(values[e]) <= tol; e++) {
+		const v = new Array<number>(n).fill(0);
+		for (let a = 0; a < k; a++) for (let i = 0; i < n; i++) v[i] += vectors[e][a] * Z[a][i];
+		// a first-order point may keep a gradient up to the tolerance: allow its linear term, no more
+		const slope = g0 ? Math.min(Math.abs(dot(g0, v)), gTol) : 0;
+		const allowed = 1e-12 * Math.max(1, Math.abs(L0)) + 1.01 * h2 * slope;
+		for (const t of [h2, -h2]) {
+			const q = tryEval(shifted(run, p.x, v, t));
+			if (q && valueL(q) < L0 - allowed)
+				return { ok: false, detail: `f decreases from the point along ${fmt(v)} (flat curvature, higher-order descent or a step)` };
+		}
 	}
 	return { ok: true, detail: 'curvature ≈ 0 and no descent at ±h (degenerate or flat minimum)' };
 }

@@ -20,7 +20,7 @@
  *   tried (N&W Algorithm 18.3): d̂ = −Aᵀ(AAᵀ)⁻¹c(x + d) over the active constraints.
  * - Stop: the KKT conditions at x with the QP's multipliers — stationarity
  *   ‖∇F + Σλᵢ∇cᵢ − z_lo + z_hi‖∞ and complementarity max |λᵢcᵢ|, |z·(x − bound)|
- *   both ≤ gradTol·max(1, |F|), feasibility max viol ≤ feasTol — then the
+ *   both ≤ gradTol·max(1, min(|F(start)|, |F|)), feasibility max viol ≤ feasTol — then the
  *   second-order check on the null space of the active constraints.
  *
  * Fallbacks (documented outcomes, never silent):
@@ -49,7 +49,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 		const cs = problem.objective.constraints ?? [];
 		const m = cs.length;
 		const kinds = cs.map((c) => c.kind);
-		const { gradTol, feasTol, stepTol } = run.settings;
+		const { feasTol, stepTol } = run.settings;
 
 		const viol = (values: number[], i: number) => (kinds[i] === 'eq' ? Math.abs(values[i]) : Math.max(0, values[i]));
 		const weights = new Array<number>(m).fill(0);
@@ -115,7 +115,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 			} else if (qp.status === 'failed') mode = 'descent';
 
 			// KKT residuals at x with the QP's multipliers
-			const tol = gradTol * Math.max(1, Math.abs(p.f));
+			const tol = run.gradTolAt(p);
 			let kkt: KktResiduals | null = null;
 			if (mode === 'qp') {
 				const r = g.slice();

@@ -82,7 +82,7 @@ export interface IterationRecord {
 }
 
 export interface OptimizeOptions {
-	/** first-order stop: ‖projected ∇f‖∞ (or the KKT stationarity and complementarity) ≤ gradTol·max(1, |f|) */
+	/** first-order stop: ‖projected ∇f‖∞ (or the KKT stationarity and complementarity) ≤ gradTol·max(1, min(|f(start)|, |f|)) */
 	gradTol?: number;
 	/** no-progress stop: a step ‖Δx‖∞ ≤ stepTol·(1 + ‖x‖∞); Nelder–Mead: simplex diameter for convergence */
 	stepTol?: number;
