@@ -20,8 +20,9 @@
  *   best vertex, with the simplex re-squared along the axes.
  * - Stop test (ours, checked on fmin's per-iteration `history` hook; fmin's own
  *   test is disabled by a 1e-300 tolerance): simplex diameter
- *   ≤ stepTol·(1 + ‖x‖∞) and spread of f ≤ fTol·max(1, |f|); then the
- *   derivative-free second-order check. Budgets are enforced by the run
+ *   ≤ stepTol·(1 + ‖x‖∞) (default 1e-8; 1e-13 for `solve`) and spread of f
+ *   ≤ fTol·max(1, |f|); then the derivative-free second-order check. A `solve`
+ *   run also stops as soon as the best vertex meets the residual tolerance. Budgets are enforced by the run
  *   throwing its sentinel from inside the objective or the hook.
  * - Non-finite f is passed to fmin as +∞ (the worst vertex), so NaN cannot
  *   corrupt its sort.
@@ -47,7 +48,9 @@ interface HistoryState {
 
 export function nelderMead(problem: Problem, options: OptimizeOptions, start: number[]): RunResult {
 	const n = problem.objective.n;
-	const run: Run = new Run(problem, 'nelder-mead', options, { maxIterations: 200 * Math.max(1, n), stepTol: 1e-8, fTol: 1e-12 });
+	// a `solve` run as least squares needs a finer simplex to bring |f − target| to its tolerance
+	const stepTol = problem.kind === 'solve' ? 1e-13 : 1e-8;
+	const run: Run = new Run(problem, 'nelder-mead', options, { maxIterations: 200 * Math.max(1, n), stepTol, fTol: 1e-12 });
 	return run.guard(() => {
 		const { stepTol, fTol } = run.settings;
 		const first = run.evaluate(run.prepareStart(start));
@@ -85,6 +88,7 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 				push(state: HistoryState) {
 					if (pushes++ > 0) run.record(best);
 					if (best.f === -Infinity) run.stop('diverged', 'f → −∞ (unbounded below)', best);
+					if (run.mode === 'least-squares' && run.residualMet(best)) throw new Converged('f = target within tolerance');
 					const verts = state.simplex.map((v) => toX(v));
 					lastSimplex = verts;
 					const xb = best.x;

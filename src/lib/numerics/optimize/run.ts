@@ -387,9 +387,19 @@ export class Run {
 		return this.settings.gradTol * this.fScale(p);
 	}
 
-	/** is `measure` (a gradient or KKT residual) small enough at p — or, for `solve` as least squares, is the target met? */
+	/**
+	 * Is `measure` (a gradient or KKT residual of the minimized function) small
+	 * enough at p? For `solve` as least squares: is the target met — or is the
+	 * point stationary without a root? There ∇(½r²) = r∇f, so the test divides
+	 * by |r|: it fires where the user's f is stationary (no root nearby), not
+	 * merely because r is small (which the residual test decides).
+	 */
 	firstOrderMet(p: Point, measure: number): boolean {
-		if (this.mode === 'least-squares' && this.residualMet(p)) return true;
+		if (this.mode === 'least-squares') {
+			if (this.residualMet(p)) return true;
+			const r = Math.abs(p.userF - this.target);
+			return measure / r <= this.settings.gradTol * Math.max(1, Math.abs(this.target));
+		}
 		return measure <= this.gradTolAt(p);
 	}
 

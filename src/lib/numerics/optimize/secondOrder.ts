@@ -186,7 +186,7 @@ export function conclude(run: Run, p: Point, firstOrderReason: string, ctx: Seco
 	const extra = { multipliers: ctx.multipliers ?? null, kkt: ctx.kkt ?? null };
 	if (run.mode === 'least-squares') {
 		if (run.residualMet(p)) return run.finish(p, 'converged', `f = target within tolerance (|f − target| = ${Math.abs(p.userF - run.target).toExponential(2)})`, extra);
-		return run.finish(p, 'stalled', `local minimum of |f − target| = ${Math.abs(p.userF - run.target).toPrecision(4)}: no root here`, extra);
+		return run.finish(p, 'stalled', `|f − target| = ${Math.abs(p.userF - run.target).toPrecision(4)} stays above the residual tolerance (a local minimum of |f − target|): no root found here`, extra);
 	}
 	if (!run.settings.secondOrderCheck) return run.finish(p, 'converged', firstOrderReason, extra);
 	let verdict: Verdict;

@@ -128,10 +128,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 					if (qp.zHi[j]) comp = Math.max(comp, Math.abs(qp.zHi[j] * (run.hi[j] - x[j])));
 				}
 				kkt = { stationarity: normInf(r), feasibility: run.violation(C.values), complementarity: comp };
-				const met =
-					run.mode === 'least-squares'
-						? run.residualMet(p) && kkt.feasibility <= feasTol
-						: kkt.stationarity <= tol && kkt.feasibility <= feasTol && kkt.complementarity <= tol;
+				const met = run.firstOrderMet(p, kkt.stationarity) && kkt.feasibility <= feasTol && kkt.complementarity <= tol;
 				if (met) {
 					lambda = qp.lambda;
 					const activeNormals: number[][] = [];
