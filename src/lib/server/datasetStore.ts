@@ -54,7 +54,7 @@ function toMeta(r: any): DatasetMeta {
 /** Pack columns (each rowCount long) column-major into little-endian float64 bytes. */
 export function packColumns(columns: ArrayLike<number>[], rowCount: number): Buffer {
 	const out = new Float64Array(columns.length * rowCount);
-	columns.forEach((c, i) => out.set(Array.from(c as ArrayLike<number>), i * rowCount));
+	columns.forEach((c, i) => out.set(c instanceof Float64Array ? c : Array.from(c), i * rowCount));
 	// Float64Array is platform-endian; every platform Node supports here is little-endian.
 	return Buffer.from(out.buffer, out.byteOffset, out.byteLength);
 }
@@ -136,4 +136,60 @@ export async function listForWorkspace(db: Db, workspaceId: string, includeArchi
 	const q = db('datasets').where({ workspace_id: workspaceId }).orderBy('created_at', 'desc').select(META_COLUMNS);
 	if (!includeArchived) q.whereNull('archived_at');
 	return (await q).map(toMeta);
+}
+
+/** Every version of one dataset name in a workspace, newest first (archived ones included). */
+export async function versions(db: Db, workspaceId: string, name: string): Promise<{ id: string; version: number; createdAt: Date; archivedAt: Date | null }[]> {
+	const rows = await db('datasets')
+		.where({ workspace_id: workspaceId, name })
+		.orderBy('version', 'desc')
+		.select('id', 'version', 'created_at', 'archived_at');
+	return rows.map((r) => ({ id: r.id, version: r.version, createdAt: r.created_at, archivedAt: r.archived_at }));
+}
+
+/** The highest version stored under `name`, or 0 when the name is new. */
+export async function latestVersion(db: Db, workspaceId: string, name: string): Promise<number> {
+	const row = await db('datasets').where({ workspace_id: workspaceId, name }).max<{ v: number | null }>('version as v').first();
+	return row?.v ?? 0;
+}
+
+/** Hide a dataset from lists (or show it again); studies that use it keep working. */
+export async function setArchived(db: Db, id: string, archived: boolean): Promise<Date | null> {
+	const [row] = await db('datasets')
+		.where({ id })
+		.update({ archived_at: archived ? db.raw('COALESCE(archived_at, now())') : null })
+		.returning('archived_at');
+	return row?.archived_at ?? null;
+}
+
+/**
+ * How many studies use the dataset. The studies table belongs to another
+ * module and may not exist yet (or not have the column), hence the catalogue check.
+ */
+export async function studyCount(db: Db, id: string): Promise<number> {
+	const has = await db.raw(
+		`SELECT 1 FROM information_schema.columns WHERE table_schema = current_schema() AND table_name = 'studies' AND column_name = 'dataset_id'`
+	);
+	if (has.rows.length === 0) return 0;
+	const row = await db('studies').where({ dataset_id: id }).count<{ n: number }[]>('* as n').first();
+	return Number(row?.n ?? 0);
+}
+
+/**
+ * Delete a dataset unless a study uses it. The count and the delete share a
+ * transaction; a study inserted in between still trips the foreign key
+ * (23503), which is reported the same way.
+ */
+export async function remove(db: Db, id: string): Promise<'deleted' | 'in-use' | 'missing'> {
+	const run = async (trx: Db): Promise<'deleted' | 'in-use' | 'missing'> => {
+		if ((await studyCount(trx, id)) > 0) return 'in-use';
+		try {
+			const n = await trx('datasets').where({ id }).delete();
+			return n > 0 ? 'deleted' : 'missing';
+		} catch (e) {
+			if ((e as { code?: string }).code === '23503') return 'in-use';
+			throw e;
+		}
+	};
+	return 'isTransaction' in db && db.isTransaction ? run(db) : (db as import('knex').Knex).transaction(run);
 }

@@ -1,0 +1,251 @@
+// The upload flow shared by the API route and the upload page's form actions:
+// read the request body under the size limit, parse it into a table, check it,
+// and store it. Parsing and checking live in ./datasets; storage in ./datasetStore.
+import { z } from 'zod';
+import {
+	DatasetError,
+	MAX_FILE_BYTES,
+	MAX_NAME_LENGTH,
+	formatMegabytes,
+	limitBytes,
+	parseTable,
+	sha256,
+	validateTable,
+	type ErrorDetail,
+	type ParsedTable,
+	type Role,
+	type ValidationReport
+} from './datasets';
+import * as datasetStore from './datasetStore';
+
+/** Room for the multipart framing and the small fields that travel with the file. */
+const FORM_OVERHEAD = 1024 * 1024;
+export const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
+const MAX_DESCRIPTION = 2000;
+const HEAD_ROWS = 8;
+
+const ROLE_ERROR = { error: 'a column role must be "input" or "output"' };
+
+/** The fields that travel with an upload (multipart form or the upload page). */
+export const uploadFieldsSchema = z.object({
+	name: z.string().trim().min(1, 'name cannot be empty').max(MAX_NAME_LENGTH, `name can be at most ${MAX_NAME_LENGTH} characters`).optional(),
+	description: z.string().trim().max(MAX_DESCRIPTION, `description can be at most ${MAX_DESCRIPTION} characters`).optional(),
+	sheet: z.string().trim().min(1).max(100, 'sheet name can be at most 100 characters').optional(),
+	roles: z.record(z.string(), z.enum(['input', 'output'], ROLE_ERROR), { error: 'roles must be an object { "column name": "input" | "output" }' }).optional()
+});
+export type UploadFields = z.infer<typeof uploadFieldsSchema>;
+
+export type Source =
+	| { kind: 'file'; bytes: Uint8Array; filename: string; sheet?: string }
+	| { kind: 'paste'; text: string };
+
+function tooLarge(size?: number): DatasetError {
+	const what = size === undefined ? `more than ${formatMegabytes(MAX_FILE_BYTES)}` : formatMegabytes(size);
+	return new DatasetError('file-too-large', `the upload is ${what}; the file limit is ${formatMegabytes(MAX_FILE_BYTES)}`);
+}
+
+/**
+ * The request body, read whole but never past `max` bytes: a declared
+ * Content-Length over the limit is refused before reading, and a streamed body
+ * is cut off as soon as it passes the limit. Throws the 413 DatasetError.
+ */
+export async function readBody(request: Request, max = MAX_UPLOAD_BODY): Promise<Uint8Array> {
+	const declared = Number(request.headers.get('content-length'));
+	if (Number.isFinite(declared) && declared > max) throw tooLarge(declared);
+	if (!request.body) return new Uint8Array(0);
+	try {
+		return await limitBytes(request.body, max);
+	} catch (e) {
+		if (e instanceof DatasetError) throw tooLarge();
+		// the server's own body limit (BODY_SIZE_LIMIT) errors the stream with a 413
+		if ((e as { status?: number }).status === 413) throw tooLarge();
+		throw e;
+	}
+}
+
+/** A multipart body under the size limit, as FormData. */
+export async function readMultipart(request: Request): Promise<FormData> {
+	const type = request.headers.get('content-type') ?? '';
+	const bytes = await readBody(request);
+	try {
+		return await new Response(bytes as Uint8Array<ArrayBuffer>, { headers: { 'content-type': type } }).formData();
+	} catch {
+		throw new DatasetError('invalid-body', 'the multipart form body could not be read', [{ field: 'body', problem: 'not a valid multipart/form-data body' }]);
+	}
+}
+
+const text = (form: FormData, key: string): string | undefined => {
+	const v = form.get(key);
+	return typeof v === 'string' && v.trim() !== '' ? v : undefined;
+};
+
+/**
+ * The fields of an upload form. Roles come as JSON in `roles` (scripts) or as
+ * one `role:<column>` field per column (the upload page's selects).
+ */
+export function uploadFields(form: FormData): UploadFields {
+	let roles: unknown;
+	const rolesJson = text(form, 'roles');
+	if (rolesJson !== undefined) {
+		try {
+			roles = JSON.parse(rolesJson);
+		} catch {
+			throw new DatasetError('invalid-body', 'roles is not valid JSON; send an object like {"J": "input", "eta": "output"}', [
+				{ field: 'roles', problem: 'not valid JSON' }
+			]);
+		}
+	} else {
+		const picked: Record<string, string> = {};
+		for (const [key, value] of form) if (key.startsWith('role:') && typeof value === 'string') picked[key.slice(5)] = value;
+		if (Object.keys(picked).length) roles = picked;
+	}
+	const parsed = uploadFieldsSchema.safeParse({
+		name: text(form, 'name'),
+		description: text(form, 'description'),
+		sheet: text(form, 'sheet'),
+		roles
+	});
+	if (!parsed.success) {
+		const details: ErrorDetail[] = parsed.error.issues.map((i) => ({ field: i.path.map(String).join('.') || 'body', problem: i.message }));
+		throw new DatasetError('invalid-body', `${details[0].field}: ${details[0].problem}`, details);
+	}
+	return parsed.data;
+}
+
+/** The file (or pasted cells) of an upload form; null when neither was sent. */
+export async function uploadSource(form: FormData, sheet?: string): Promise<Source | null> {
+	const file = form.get('file');
+	if (file instanceof File && (file.size > 0 || file.name !== '')) {
+		if (file.size > MAX_FILE_BYTES) throw tooLarge(file.size);
+		return { kind: 'file', bytes: new Uint8Array(await file.arrayBuffer()), filename: file.name || 'upload', sheet };
+	}
+	const pasted = form.get('text');
+	if (typeof pasted === 'string' && pasted.trim() !== '') return { kind: 'paste', text: pasted };
+	return null;
+}
+
+export function parseSource(source: Source): Promise<ParsedTable> {
+	return source.kind === 'file'
+		? parseTable({ bytes: source.bytes, filename: source.filename, ...(source.sheet ? { sheet: source.sheet } : {}) })
+		: parseTable({ text: source.text });
+}
+
+export function sourceBytes(source: Source): Uint8Array {
+	return source.kind === 'file' ? source.bytes : new TextEncoder().encode(source.text);
+}
+
+/** "prop-sweep_v2.csv" → "prop-sweep_v2". */
+export function defaultName(source: Source): string {
+	if (source.kind === 'paste') return 'pasted table';
+	const stem = source.filename.replace(/\.[A-Za-z0-9]{1,5}$/, '').trim();
+	return (stem || 'upload').slice(0, MAX_NAME_LENGTH);
+}
+
+/** The report of a checked table, as the upload page and `?dryRun=1` show it. */
+export interface UploadReport {
+	ok: boolean;
+	name: string;
+	/** the version saving would create */
+	version: number;
+	format: ParsedTable['format'];
+	filename: string | null;
+	sheet: string | null;
+	sheets: string[];
+	hasHeader: boolean;
+	shape: ValidationReport['shape'];
+	shapeReason: string;
+	columns: ValidationReport['columns'];
+	inputs: string[];
+	outputs: string[];
+	rowCount: number;
+	errors: ErrorDetail[];
+	warnings: string[];
+	notes: string[];
+	/** the first rows as read, and the row numbers the user sees for them */
+	head: { row: number; cells: (string | number | null)[] }[];
+}
+
+export function uploadReport(parsed: ParsedTable, report: ValidationReport, name: string, version: number, filename: string | null): UploadReport {
+	return {
+		ok: report.ok,
+		name,
+		version,
+		format: parsed.format,
+		filename,
+		sheet: parsed.sheet ?? null,
+		sheets: parsed.sheets ?? [],
+		hasHeader: parsed.hasHeader,
+		shape: report.shape,
+		shapeReason: report.shapeReason,
+		columns: report.columns,
+		inputs: report.columns.filter((c) => c.role === 'input').map((c) => c.name),
+		outputs: report.columns.filter((c) => c.role === 'output').map((c) => c.name),
+		rowCount: report.rowCount,
+		errors: report.errors.map((e) => ({
+			...(e.row !== undefined ? { row: e.row } : {}),
+			...(e.column !== undefined ? { column: e.column } : {}),
+			problem: e.message
+		})),
+		warnings: report.warnings,
+		notes: report.notes,
+		head: parsed.rows.slice(0, HEAD_ROWS).map((cells, i) => ({ row: parsed.rowNumbers[i], cells }))
+	};
+}
+
+/** Roles limited to the table's columns (the page keeps selects from an earlier file). */
+export function rolesFor(parsed: ParsedTable, roles: Record<string, Role> | undefined): Record<string, Role> | undefined {
+	if (!roles) return undefined;
+	const names = new Set(parsed.columns.map((c) => c.name));
+	const kept = Object.fromEntries(Object.entries(roles).filter(([k]) => names.has(k)));
+	return Object.keys(kept).length ? kept : undefined;
+}
+
+export interface SaveInput {
+	workspaceId: string;
+	userId: string;
+	name: string;
+	description?: string;
+	parsed: ParsedTable;
+	report: ValidationReport;
+	filename: string | null;
+	bytes: Uint8Array;
+	/** removed in the same transaction as the dataset is written */
+	draftId?: string;
+}
+
+/**
+ * Store a checked table as the next version of its name. The dataset row and
+ * the removal of its draft commit together or not at all.
+ */
+export async function save(db: import('knex').Knex, input: SaveInput): Promise<datasetStore.DatasetMeta> {
+	const { report, parsed } = input;
+	if (!report.ok || !report.data || !report.shape) throw new Error('save() needs a table that passed validateTable');
+	const data = report.data;
+	const shape = report.shape;
+	return db.transaction(async (trx) => {
+		const meta = await datasetStore.create(trx, {
+			workspaceId: input.workspaceId,
+			name: input.name,
+			description: input.description ?? '',
+			shape,
+			shapeReason: report.shapeReason,
+			columns: report.columns,
+			data,
+			rowCount: report.rowCount,
+			sourceFormat: parsed.format,
+			sourceFilename: input.filename,
+			sourceBytes: input.bytes,
+			sourceSha256: sha256(input.bytes),
+			notes: report.notes,
+			warnings: report.warnings,
+			createdBy: input.userId
+		});
+		if (input.draftId) await trx('dataset_drafts').where({ id: input.draftId }).delete();
+		return meta;
+	});
+}
+
+/** Runs the checks: validateTable with the caller's roles. */
+export function check(parsed: ParsedTable, roles?: Record<string, Role>): ValidationReport {
+	return validateTable(parsed, roles);
+}
