@@ -192,6 +192,8 @@ export class Run {
 	readonly path: Path = { x: [], f: [], grad: [], step: [], violation: [], merit: [], active: [] };
 	/** last accepted iterate */
 	current: Point | null = null;
+	/** the minimized function's value at the start (set by the first record) */
+	private f0 = NaN;
 	private readonly t0: number;
 	private startX: number[] = [];
 
@@ -336,7 +338,6 @@ export class Run {
 			const r = raw.f - this.target;
 			f = 0.5 * r * r;
 		}
-		if (Number.isNaN(f)) f = NaN;
 		return new Point(this, x, f, raw);
 	}
 
@@ -377,7 +378,7 @@ export class Run {
 	 * tolerance growing with |f|.
 	 */
 	fScale(p: Point): number {
-		const f0 = this.path.merit.length ? Math.abs(this.path.merit[0]) : Math.abs(p.f);
+		const f0 = Number.isNaN(this.f0) ? Math.abs(p.f) : Math.abs(this.f0);
 		const v = Math.min(Number.isFinite(f0) ? f0 : Infinity, Math.abs(p.f));
 		return Number.isFinite(v) ? Math.max(1, v) : 1;
 	}
@@ -422,6 +423,17 @@ export class Run {
 		return m;
 	}
 
+	/** labels of the bounds x sits on: lo<j> / hi<j> */
+	activeBounds(x: number[]): string[] {
+		if (!this.hasBounds) return [];
+		const out: string[] = [];
+		for (let i = 0; i < this.n; i++) {
+			if (x[i] <= this.lo[i]) out.push(`lo${i}`);
+			else if (x[i] >= this.hi[i]) out.push(`hi${i}`);
+		}
+		return out;
+	}
+
 	/** append an accepted iterate (the start is iteration 0) */
 	record(p: Point, extra: { violation?: number; merit?: number; active?: string[] } = {}): void {
 		const prev = this.path.x.length ? this.path.x[this.path.x.length - 1] : null;
@@ -431,6 +443,7 @@ export class Run {
 			for (let i = 0; i < this.n; i++) d[i] = p.x[i] - prev[i];
 			step = norm2(d);
 		}
+		if (!prev) this.f0 = p.f;
 		const rec: IterationRecord = {
 			iteration: this.path.x.length,
 			x: p.x.slice(),
@@ -439,7 +452,7 @@ export class Run {
 			step,
 			violation: extra.violation ?? 0,
 			merit: extra.merit ?? p.f,
-			active: extra.active ?? []
+			active: extra.active ?? this.activeBounds(p.x)
 		};
 		this.path.x.push(rec.x);
 		this.path.f.push(rec.f);

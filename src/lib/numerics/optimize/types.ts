@@ -112,9 +112,13 @@ export interface Path {
 	step: number[];
 	/** largest constraint violation (0 without constraints) */
 	violation: number[];
-	/** what the optimizer decreased: f (−f when maximizing; ½(f − target)² for `solve` by an optimizer), plus the SQP penalty */
+	/**
+	 * what the optimizer decreased: f (−f when maximizing; ½(f − target)² for
+	 * `solve` by an optimizer other than Newton), plus the SQP penalty terms;
+	 * Newton `solve`: |f − target| (one input) or max |rᵢ| (a system)
+	 */
 	merit: number[];
-	/** active constraints: `c<i>` (constraint i), `lo<j>` / `hi<j>` (bound on input j) */
+	/** active constraints: `c<i>` (constraint i), `lo<j>` / `hi<j>` (bound on input j); SQP reports its QP's active set, the others the bounds x sits on */
 	active: string[][];
 }
 
