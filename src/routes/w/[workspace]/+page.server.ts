@@ -1,6 +1,7 @@
 import { inviteSchema, memberRemoveSchema, memberRoleSchema } from '$lib/schemas';
 import { roleAtLeast, workspaceAccess } from '$lib/server/access';
 import { db } from '$lib/server/db';
+import * as datasetStore from '$lib/server/datasetStore';
 import { formAction } from '$lib/server/forms';
 import { inviteMember } from '$lib/server/invitations';
 import * as workspaces from '$lib/server/workspaces';
@@ -10,11 +11,19 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async ({ locals, params, url }) => {
 	if (!locals.user) redirect(303, `/login?next=${encodeURIComponent(url.pathname)}`);
 	const { workspace, role } = await workspaceAccess(locals, params.workspace, 'viewer');
-	const [members, invitations] = await Promise.all([
+	const [members, invitations, datasets] = await Promise.all([
 		workspaces.members(db(), workspace.id),
-		roleAtLeast(role, 'owner') ? workspaces.pendingInvitations(db(), workspace.id) : Promise.resolve([])
+		roleAtLeast(role, 'owner') ? workspaces.pendingInvitations(db(), workspace.id) : Promise.resolve([]),
+		datasetStore.listForWorkspace(db(), workspace.id)
 	]);
-	return { workspace: { slug: workspace.slug, name: workspace.name }, role, members, invitations, me: locals.user.email };
+	return {
+		workspace: { slug: workspace.slug, name: workspace.name },
+		role,
+		members,
+		invitations,
+		me: locals.user.email,
+		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, createdAt: d.createdAt }))
+	};
 }) satisfies PageServerLoad;
 
 export const actions = {
