@@ -4,9 +4,12 @@ import * as apiTokens from '$lib/server/apiTokens';
 import { errorBody } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
+import { startStudyWorkers } from '$lib/server/studies/app';
 
 export const init: ServerInit = async () => {
 	await startCatcher();
+	// the job queue and study worker threads (KINKLESS_WORKERS=0: none in this process); not awaited
+	void startStudyWorkers().catch(() => {});
 };
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);

@@ -1,0 +1,122 @@
+/**
+ * The scorecard: one row per fit × optimizer over all its runs, ranked by the
+ * rule in RANK_RULE (the study page prints it). Counts and medians are
+ * aggregated in PostgreSQL so a study of 100,000 runs is scored without
+ * loading them.
+ */
+import type { Knex } from 'knex';
+import type { Study, StudyFit } from './store';
+
+type Db = Knex | Knex.Transaction;
+
+export const RANK_RULE =
+	'Rows are ranked by success rate (share of runs that converged; higher first), then by whether the best end point reaches the fit’s reference optimum (yes first), then by the fit’s leave-one-out RMSE (lower first), then by median evaluations (fewer first).';
+
+/** a best end point within this share of the fit's range of f from the reference counts as reaching it */
+export const REFERENCE_TOLERANCE = 1e-6;
+
+export const OUTCOMES = ['converged', 'stalled', 'iteration-limit', 'left-domain', 'diverged'] as const;
+
+export interface ScorecardRow {
+	rank: number;
+	fitId: string;
+	method: string;
+	optimizer: string;
+	optimizerIndex: number;
+	runs: number;
+	successRate: number;
+	medianIterations: number | null;
+	medianEvaluations: number | null;
+	best: { x: number[]; f: number; runId: number; converged: boolean } | null;
+	outcomes: Record<(typeof OUTCOMES)[number], number>;
+	atKink: number;
+	/** range of x* and of f* over the converged runs */
+	spread: { x: number; f: number } | null;
+	reference: { x: number[] | null; f: number | null } | null;
+	/** how far the best end point is from the reference: |Δx| and the shortfall in f (0 when it matches or beats it) */
+	gap: { x: number | null; f: number } | null;
+	reachesReference: boolean | null;
+	continuity: { declared: string; measured: string | null };
+	fidelity: { looRmse: number | null; overshoot: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
+}
+
+const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number.isFinite(Number(v)) ? Number(v) : null);
+
+export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits: StudyFit[]): Promise<ScorecardRow[]> {
+	const { kind, target } = study.spec.problem;
+	const stats = await db.raw(
+		`SELECT fit_id, optimizer, count(*)::int AS runs,
+			${OUTCOMES.map((o) => `count(*) FILTER (WHERE outcome = '${o}')::int AS "${o}"`).join(', ')},
+			count(*) FILTER (WHERE at_kink)::int AS at_kink,
+			percentile_cont(0.5) WITHIN GROUP (ORDER BY iterations) AS median_iterations,
+			percentile_cont(0.5) WITHIN GROUP (ORDER BY evals_f) AS median_evaluations,
+			min(f) FILTER (WHERE outcome = 'converged') AS f_lo, max(f) FILTER (WHERE outcome = 'converged') AS f_hi,
+			min(x[1]) FILTER (WHERE outcome = 'converged') AS x_lo, max(x[1]) FILTER (WHERE outcome = 'converged') AS x_hi
+		FROM study_runs WHERE study_id = ? GROUP BY fit_id, optimizer`,
+		[study.id]
+	);
+	// the best end point per group: converged runs first, then by the problem's own measure
+	const measure = kind === 'maximize' ? '-f' : kind === 'solve' ? 'abs(f - ?)' : 'f';
+	const best = await db.raw(
+		`SELECT DISTINCT ON (fit_id, optimizer) fit_id, optimizer, id, x, f, outcome = 'converged' AS converged
+		FROM study_runs
+		WHERE study_id = ? AND f > '-Infinity'::float8 AND f < 'Infinity'::float8
+		ORDER BY fit_id, optimizer, (outcome = 'converged') DESC, ${measure} ASC, id`,
+		kind === 'solve' ? [study.id, target ?? 0] : [study.id]
+	);
+	const bestOf = new Map<string, { id: string; x: number[]; f: number; converged: boolean }>();
+	for (const b of best.rows) bestOf.set(`${b.fit_id}/${b.optimizer}`, b);
+	const fitOf = new Map(fits.map((f) => [f.id, f]));
+
+	const rows: ScorecardRow[] = stats.rows.map((s: Record<string, unknown>) => {
+		const fit = fitOf.get(s.fit_id as string)!;
+		const b = bestOf.get(`${s.fit_id}/${s.optimizer}`);
+		const runs = s.runs as number;
+		const ref = fit?.reference && !fit.reference.error && fit.reference.x ? fit.reference : null;
+		let gap: ScorecardRow['gap'] = null;
+		let reaches: boolean | null = null;
+		if (b && ref) {
+			const points = kind === 'solve' && ref.roots?.length ? ref.roots.map((r) => [r]) : [ref.x!];
+			const dx = Math.min(...points.map((p) => Math.max(...p.map((v, j) => Math.abs((b.x[j] ?? NaN) - v)))));
+			const sense = kind === 'maximize' ? -1 : 1;
+			const shortfall = kind === 'solve' ? Math.abs(b.f - (target ?? 0)) : Math.max(0, sense * (b.f - (ref.f ?? b.f)));
+			gap = { x: Number.isFinite(dx) ? dx : null, f: shortfall };
+			const scale = ref.fRange > 0 ? ref.fRange : Math.max(1, Math.abs(ref.f ?? 1));
+			reaches = shortfall <= REFERENCE_TOLERANCE * scale;
+		}
+		const converged = s.converged as number;
+		return {
+			rank: 0,
+			fitId: s.fit_id as string,
+			method: fit?.method ?? '?',
+			optimizer: study.spec.optimizers[s.optimizer as number]?.method ?? String(s.optimizer),
+			optimizerIndex: s.optimizer as number,
+			runs,
+			successRate: runs ? converged / runs : 0,
+			medianIterations: num(s.median_iterations),
+			medianEvaluations: num(s.median_evaluations),
+			best: b ? { x: b.x, f: b.f, runId: Number(b.id), converged: b.converged } : null,
+			outcomes: Object.fromEntries(OUTCOMES.map((o) => [o, s[o] as number])) as ScorecardRow['outcomes'],
+			atKink: s.at_kink as number,
+			spread: converged ? { x: (num(s.x_hi) ?? 0) - (num(s.x_lo) ?? 0), f: (num(s.f_hi) ?? 0) - (num(s.f_lo) ?? 0) } : null,
+			reference: ref ? { x: ref.x, f: ref.f } : null,
+			gap,
+			reachesReference: reaches,
+			continuity: { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.measured ?? null },
+			fidelity: fit?.fidelity && !fit.fidelity.error ? { looRmse: num(fit.fidelity.looRmse), overshoot: num(fit.fidelity.overshoot), monotoneKept: fit.fidelity.monotoneKept ?? null, spuriousExtrema: num(fit.fidelity.spuriousExtrema) } : null
+		};
+	});
+	return rank(rows);
+}
+
+/** Sort by the stated rule and number the rows. */
+export function rank(rows: ScorecardRow[]): ScorecardRow[] {
+	const key = (r: ScorecardRow) => [-r.successRate, r.reachesReference ? 0 : 1, r.fidelity?.looRmse ?? Infinity, r.medianEvaluations ?? Infinity];
+	const sorted = [...rows].sort((a, b) => {
+		const ka = key(a);
+		const kb = key(b);
+		for (let i = 0; i < ka.length; i++) if (ka[i] !== kb[i]) return ka[i] < kb[i] ? -1 : 1;
+		return a.method.localeCompare(b.method) || a.optimizerIndex - b.optimizerIndex;
+	});
+	return sorted.map((r, i) => ({ ...r, rank: i + 1 }));
+}

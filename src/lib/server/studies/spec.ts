@@ -1,0 +1,26 @@
+/** What a study stores about its request (`studies.spec`), with defaults filled in. */
+import type { CurveFitOptions } from '../../numerics/fits/types';
+import type { OptimizeOptions, OptimizerName, ProblemKind } from '../../numerics/optimize/types';
+import type { ConstraintOp } from './problem';
+
+export interface StudySpec {
+	problem: {
+		kind: ProblemKind;
+		target?: number;
+		/** one [lo, hi] per input; the data's range unless the request set them */
+		bounds: [number, number][];
+		boundsFromData: boolean;
+		constraints: { output: string; op: ConstraintOp; value: number }[];
+	};
+	fits: { method: string; options: CurveFitOptions }[];
+	optimizers: { method: OptimizerName; options: OptimizeOptions }[];
+	starts: { points: number[][] } | { grid: number } | { latinHypercube: number; seed: number };
+	budgets: { maxIterations: number; maxEvaluations: number; maxMilliseconds: number };
+	dataset: {
+		id: string;
+		name: string;
+		version: number;
+		input: { name: string; unit: string | null };
+		output: { name: string; unit: string | null };
+	};
+}

@@ -1,0 +1,249 @@
+/**
+ * Studies in PostgreSQL: the verbs routes, pages and scripts use. Each takes
+ * a `db` handle so the caller owns the transaction; snake_case columns are
+ * mapped to camelCase here.
+ * Relative imports only (the benchmark loads this through tsx).
+ */
+import type { Knex } from 'knex';
+import { newSecret, sha256 } from '../tokens';
+import { unpackPath, type StoredPath } from './pathPack';
+import { unpackStarts } from './runner';
+import type { StudySpec } from './spec';
+
+type Db = Knex | Knex.Transaction;
+export type StudyStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+export const isUuid = (id: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id);
+export const isActive = (s: StudyStatus) => s === 'queued' || s === 'running';
+
+export interface Study {
+	id: string;
+	workspaceId: string;
+	name: string;
+	datasetId: string;
+	output: string;
+	spec: StudySpec;
+	nInputs: number;
+	startCount: number;
+	status: StudyStatus;
+	progress: { done: number; total: number };
+	audits: { done: number; total: number };
+	queue: string;
+	error: string | null;
+	createdBy: { id: string; name: string } | null;
+	createdAt: Date;
+	startedAt: Date | null;
+	finishedAt: Date | null;
+	pick: null | { fitId: string; rationale: string; by: string | null; at: Date };
+}
+
+const STUDY_COLUMNS = [
+	's.id', 's.workspace_id', 's.name', 's.dataset_id', 's.output', 's.spec', 's.n_inputs', 's.start_count', 's.status', 's.runs_total', 's.runs_done',
+	's.audits_total', 's.audits_done', 's.queue', 's.error', 's.created_by', 's.created_at', 's.started_at', 's.finished_at', 's.pick_fit_id',
+	's.pick_rationale', 's.picked_at', 'cu.name as created_by_name', 'pu.name as picked_by_name'
+];
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function toStudy(r: any): Study {
+	return {
+		id: r.id,
+		workspaceId: r.workspace_id,
+		name: r.name,
+		datasetId: r.dataset_id,
+		output: r.output,
+		spec: r.spec,
+		nInputs: r.n_inputs,
+		startCount: r.start_count,
+		status: r.status,
+		progress: { done: r.runs_done, total: r.runs_total },
+		audits: { done: r.audits_done, total: r.audits_total },
+		queue: r.queue,
+		error: r.error,
+		createdBy: r.created_by ? { id: r.created_by, name: r.created_by_name ?? '' } : null,
+		createdAt: r.created_at,
+		startedAt: r.started_at,
+		finishedAt: r.finished_at,
+		pick: r.pick_fit_id ? { fitId: r.pick_fit_id, rationale: r.pick_rationale, by: r.picked_by_name ?? null, at: r.picked_at } : null
+	};
+}
+
+export async function get(db: Db, id: string): Promise<Study | null> {
+	if (!isUuid(id)) return null;
+	const row = await db('studies as s')
+		.leftJoin('users as cu', 'cu.id', 's.created_by')
+		.leftJoin('users as pu', 'pu.id', 's.picked_by')
+		.where('s.id', id)
+		.first(STUDY_COLUMNS);
+	return row ? toStudy(row) : null;
+}
+
+export async function workspaceOf(db: Db, id: string): Promise<string | null> {
+	if (!isUuid(id)) return null;
+	const row = await db('studies').where({ id }).first('workspace_id');
+	return row?.workspace_id ?? null;
+}
+
+export type StudyListItem = { id: string; name: string; status: StudyStatus; createdAt: Date; progress: { done: number; total: number }; dataset: string; output: string; createdBy: string | null };
+
+export async function listForWorkspace(db: Db, workspaceId: string, limit = 200): Promise<StudyListItem[]> {
+	const rows = await db('studies as s')
+		.leftJoin('users as u', 'u.id', 's.created_by')
+		.where('s.workspace_id', workspaceId)
+		.orderBy('s.created_at', 'desc')
+		.limit(limit)
+		.select('s.id', 's.name', 's.status', 's.created_at', 's.runs_done', 's.runs_total', 's.output', db.raw(`s.spec->'dataset'->>'name' as dataset`), 'u.name as created_by');
+	return rows.map((r) => ({
+		id: r.id,
+		name: r.name,
+		status: r.status,
+		createdAt: r.created_at,
+		progress: { done: r.runs_done, total: r.runs_total },
+		dataset: r.dataset,
+		output: r.output,
+		createdBy: r.created_by
+	}));
+}
+
+export type Progress = { id: string; status: StudyStatus; done: number; total: number; audits: { done: number; total: number }; error: string | null };
+
+export async function progressOf(db: Db, ids: string[]): Promise<Progress[]> {
+	const rows = await db('studies').whereIn('id', ids.filter(isUuid)).select('id', 'status', 'runs_done', 'runs_total', 'audits_done', 'audits_total', 'error');
+	return rows.map((r) => ({ id: r.id, status: r.status, done: r.runs_done, total: r.runs_total, audits: { done: r.audits_done, total: r.audits_total }, error: r.error }));
+}
+
+export interface StudyFit {
+	id: string;
+	position: number;
+	method: string;
+	options: Record<string, unknown>;
+	continuity: string;
+	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string };
+	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; monotoneKept?: boolean; dataMonotone?: string | null; spuriousExtrema?: number; error?: string };
+	reference: null | { kind: string; x: number[] | null; f: number | null; roots?: number[]; fRange: number; note?: string; error?: string };
+	samples?: { x: number[]; f: (number | null)[] } | null;
+}
+
+export async function fits(db: Db, studyId: string, withSamples = false): Promise<StudyFit[]> {
+	const cols = ['id', 'position', 'method', 'options', 'continuity', 'smoothness', 'fidelity', 'reference', ...(withSamples ? ['samples'] : [])];
+	return (await db('study_fits').where({ study_id: studyId }).orderBy('position').select(cols)) as StudyFit[];
+}
+
+export interface RunRow {
+	id: number;
+	fitId: string;
+	method: string;
+	optimizer: string;
+	optimizerIndex: number;
+	startIndex: number;
+	start: number[];
+	outcome: string;
+	atKink: boolean;
+	reason: string;
+	iterations: number;
+	evaluations: { f: number; grad: number };
+	x: number[];
+	f: number | null;
+	gradNorm: number | null;
+	ms: number;
+}
+
+const finite = (v: number | null) => (v !== null && Number.isFinite(v) ? v : null);
+
+export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' | 'startCount'>, filter: { fitId?: string; optimizer?: number; limit?: number; offset?: number } = {}): Promise<RunRow[]> {
+	const q = db('study_runs as r')
+		.join('study_fits as sf', 'sf.id', 'r.fit_id')
+		.where('r.study_id', study.id)
+		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
+		.select('r.id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+	if (filter.fitId) q.where('r.fit_id', filter.fitId);
+	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
+	if (filter.limit !== undefined) q.limit(filter.limit);
+	if (filter.offset) q.offset(filter.offset);
+	const [rows, startsRow] = await Promise.all([q, db('studies').where({ id: study.id }).first('starts')]);
+	const starts = unpackStarts(startsRow.starts, study.startCount, study.nInputs);
+	return rows.map((r) => ({
+		id: Number(r.id),
+		fitId: r.fit_id,
+		method: r.method,
+		optimizer: study.spec.optimizers[r.optimizer]?.method ?? String(r.optimizer),
+		optimizerIndex: r.optimizer,
+		startIndex: r.start_index,
+		start: starts[r.start_index],
+		outcome: r.outcome,
+		atKink: r.at_kink,
+		reason: r.reason,
+		iterations: r.iterations,
+		evaluations: { f: r.evals_f, grad: r.evals_grad },
+		x: (r.x as number[]).map((v) => finite(v) as number),
+		f: finite(r.f),
+		gradNorm: finite(r.grad_norm),
+		ms: Math.round(r.ms * 1000) / 1000
+	}));
+}
+
+/** A run's path with the study it belongs to (for the access check). */
+export async function runPath(db: Db, runId: string): Promise<{ studyId: string; path: StoredPath } | null> {
+	if (!/^\d{1,18}$/.test(runId)) return null;
+	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
+	if (!row) return null;
+	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
+}
+
+/** Cancel a queued or running study. Runs already stored stay. */
+export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
+	const n = await db('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
+	return n > 0;
+}
+
+export async function pick(db: Db, studyId: string, fitId: string, rationale: string, userId: string): Promise<boolean> {
+	const fit = await db('study_fits').where({ id: fitId, study_id: studyId }).first('id');
+	if (!fit) return false;
+	await db('studies').where({ id: studyId }).update({ pick_fit_id: fitId, pick_rationale: rationale, picked_by: userId, picked_at: db.fn.now() });
+	return true;
+}
+
+// ---------------------------------------------------------------- share links
+
+export interface Share {
+	id: string;
+	createdAt: Date;
+	expiresAt: Date | null;
+	createdBy: string | null;
+}
+
+/** The study's live link, if any (the token itself is never stored). */
+export async function activeShare(db: Db, studyId: string): Promise<Share | null> {
+	const row = await db('study_shares as sh')
+		.leftJoin('users as u', 'u.id', 'sh.created_by')
+		.where('sh.study_id', studyId)
+		.whereNull('sh.revoked_at')
+		.where((q) => q.whereNull('sh.expires_at').orWhere('sh.expires_at', '>', db.fn.now()))
+		.orderBy('sh.created_at', 'desc')
+		.first('sh.id', 'sh.created_at', 'sh.expires_at', 'u.name');
+	return row ? { id: row.id, createdAt: row.created_at, expiresAt: row.expires_at, createdBy: row.name ?? null } : null;
+}
+
+/** A new read-only link (256-bit token, stored hashed); any earlier link of the study is revoked. */
+export async function createShare(db: Knex, studyId: string, userId: string, expiresInDays?: number): Promise<{ token: string; expiresAt: Date | null }> {
+	const token = newSecret(32);
+	const expiresAt = expiresInDays ? new Date(Date.now() + expiresInDays * 86_400_000) : null;
+	await db.transaction(async (trx) => {
+		await trx('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: trx.fn.now() });
+		await trx('study_shares').insert({ study_id: studyId, token_hash: sha256(token), created_by: userId, expires_at: expiresAt });
+	});
+	return { token, expiresAt };
+}
+
+export async function revokeShares(db: Db, studyId: string): Promise<number> {
+	return db('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: db.fn.now() });
+}
+
+/** The study a share token opens, checked on every request (so revoking takes effect at once). */
+export async function studyIdForToken(db: Db, token: string): Promise<string | null> {
+	if (!/^[A-Za-z0-9_-]{20,200}$/.test(token)) return null;
+	const row = await db('study_shares')
+		.where({ token_hash: sha256(token) })
+		.whereNull('revoked_at')
+		.where((q) => q.whereNull('expires_at').orWhere('expires_at', '>', db.fn.now()))
+		.first('study_id');
+	return row?.study_id ?? null;
+}

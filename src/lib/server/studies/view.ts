@@ -1,0 +1,119 @@
+/**
+ * What the API and the pages show of a study. Paths are never included: the
+ * page fetches one when the reader opens a run.
+ */
+import type { Knex } from 'knex';
+import { getWithData } from '../datasetStore';
+import { scorecard, type ScorecardRow } from './scorecard';
+import * as store from './store';
+import type { Study } from './store';
+
+type Db = Knex | Knex.Transaction;
+
+/** `GET /api/v1/studies/:id` and `GET /api/v1/shared/:token` */
+export async function studyJson(db: Db, study: Study) {
+	const fits = await store.fits(db, study.id);
+	const card = await scorecard(db, study, fits);
+	return {
+		id: study.id,
+		name: study.name,
+		status: study.status,
+		progress: study.progress,
+		scorecard: card,
+		pick: study.pick,
+		dataset: { id: study.datasetId, name: study.spec.dataset.name, version: study.spec.dataset.version },
+		output: study.output,
+		problem: study.spec.problem,
+		fits: fits.map((f) => ({
+			id: f.id,
+			method: f.method,
+			options: f.options,
+			continuity: { declared: f.continuity, measured: f.smoothness?.measured ?? null },
+			smoothness: f.smoothness,
+			fidelity: f.fidelity,
+			reference: f.reference
+		})),
+		optimizers: study.spec.optimizers,
+		starts: study.spec.starts,
+		budgets: study.spec.budgets,
+		audits: study.audits,
+		error: study.error,
+		createdAt: study.createdAt,
+		startedAt: study.startedAt,
+		finishedAt: study.finishedAt
+	};
+}
+
+/** Most data points the chart gets (a long curve is thinned evenly). */
+const CHART_POINTS = 2000;
+/** Most runs a page carries; beyond this the page shows the scorecard and pages runs through the API. */
+export const PAGE_RUNS = 20_000;
+
+export interface StudyPage {
+	study: {
+		id: string;
+		name: string;
+		status: Study['status'];
+		progress: Study['progress'];
+		audits: Study['audits'];
+		error: string | null;
+		output: string;
+		spec: Study['spec'];
+		createdBy: string | null;
+		createdAt: string;
+		startedAt: string | null;
+		finishedAt: string | null;
+		pick: Study['pick'];
+	};
+	fits: store.StudyFit[];
+	scorecard: ScorecardRow[];
+	runs: store.RunRow[] | null;
+	data: { x: number[]; y: number[] } | null;
+}
+
+const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
+
+export async function studyPage(db: Db, study: Study): Promise<StudyPage> {
+	const finished = !store.isActive(study.status);
+	const [fits, dataset] = await Promise.all([store.fits(db, study.id, true), getWithData(db, study.datasetId)]);
+	const [card, runs] = await Promise.all([
+		scorecard(db, study, fits),
+		finished && study.progress.done <= PAGE_RUNS ? store.runs(db, study) : Promise.resolve(null)
+	]);
+	let data: StudyPage['data'] = null;
+	if (dataset) {
+		const xi = dataset.columns.findIndex((c) => c.role === 'input');
+		const yi = dataset.columns.findIndex((c) => c.name === study.output);
+		if (xi >= 0 && yi >= 0) {
+			const step = Math.max(1, Math.ceil(dataset.rowCount / CHART_POINTS));
+			const x: number[] = [];
+			const y: number[] = [];
+			for (let i = 0; i < dataset.rowCount; i += step) {
+				x.push(dataset.data[xi][i]);
+				y.push(dataset.data[yi][i]);
+			}
+			data = { x, y };
+		}
+	}
+	return {
+		study: {
+			id: study.id,
+			name: study.name,
+			status: study.status,
+			progress: study.progress,
+			audits: study.audits,
+			error: study.error,
+			output: study.output,
+			spec: study.spec,
+			createdBy: study.createdBy?.name ?? null,
+			createdAt: iso(study.createdAt)!,
+			startedAt: iso(study.startedAt),
+			finishedAt: iso(study.finishedAt),
+			pick: study.pick
+		},
+		fits,
+		scorecard: card,
+		runs,
+		data
+	};
+}
