@@ -64,7 +64,7 @@ export function maxError(fit: CurveFit, g: (x: number) => number, samples = 4001
 	const [a, b] = fit.domain;
 	let m = 0;
 	for (let i = 0; i < samples; i++) {
-		const x = a + ((b - a) * i) / (samples - 1);
+		const x = Math.min(a + ((b - a) * i) / (samples - 1), b); // rounding must not step past b
 		m = Math.max(m, Math.abs(fit.evaluate(x).f - g(x)));
 	}
 	return m;
