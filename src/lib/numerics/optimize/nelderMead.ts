@@ -24,13 +24,19 @@
  *   ≤ fTol·max(1, |f|); then the derivative-free second-order check. A `solve`
  *   run also stops as soon as the best vertex meets the residual tolerance. Budgets are enforced by the run
  *   throwing its sentinel from inside the objective or the hook.
+ * - Stagnation: when the end-point check finds a descent direction (Nelder–Mead
+ *   can stall at a non-stationary point of a non-smooth function, McKinnon
+ *   1998), the wrapper restarts with a fresh simplex of the initial size, at
+ *   most twice (the remedy of C. T. Kelley, "Detection and remediation of
+ *   stagnation in the Nelder–Mead algorithm using a sufficient decrease
+ *   condition", SIAM J. Optim. 10(1):43–55, 1999, simplified); then `stalled`.
  * - Non-finite f is passed to fmin as +∞ (the worst vertex), so NaN cannot
  *   corrupt its sort.
  * Counting: Nelder–Mead reads no gradients, so evaluations.grad is 0.
  */
 import { nelderMead as fminNelderMead } from 'fmin/index.js';
 import { fmt, Run, scaleOf, type Point } from './run';
-import { conclude } from './secondOrder';
+import { checkSecondOrder, conclude } from './secondOrder';
 import type { OptimizeOptions, Problem, RunResult } from './types';
 
 /** private: thrown from the history hook when our stop test is met */
@@ -61,6 +67,7 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 		// at least 0.00025 per axis (a tiny or denormal coordinate would give a degenerate simplex)
 		let h = b.map((v) => Math.max(0.05 * Math.abs(v), 0.00025));
 		let restarts = 0;
+		let rescues = 0;
 		for (;;) {
 			for (let i = 0; i < n; i++) if (b[i] + h[i] > run.hi[i]) h[i] = -h[i];
 			const base = b.slice();
@@ -116,8 +123,20 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 					history
 				});
 			} catch (err) {
-				if (err instanceof Converged) return conclude(run, best, err.reason, { derivativeFree: true });
-				throw err;
+				if (!(err instanceof Converged)) throw err;
+				// the end-point check found descent (a stagnated simplex): restart with a fresh one, at most twice
+				if (rescues < 2 && run.settings.secondOrderCheck && run.mode !== 'least-squares') {
+					const verdict = checkSecondOrder(run, best, { derivativeFree: true });
+					if (verdict.ok) return run.finish(best, 'converged', `${err.reason}; ${verdict.detail}`);
+					rescues++;
+					run.notes.push(`simplex stagnated at ${fmt(best.x)} (${verdict.detail}); restarted with a fresh simplex`);
+					b = best.x.slice();
+					h = b.map((v) => Math.max(0.05 * Math.abs(v), 0.00025));
+					run.record(best);
+					run.beginIteration();
+					continue;
+				}
+				return conclude(run, best, err.reason, { derivativeFree: true });
 			}
 			// fmin returned: it wanted to shrink. Count the shrink as an iteration and restart smaller.
 			run.record(best);

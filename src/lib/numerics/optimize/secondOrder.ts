@@ -14,8 +14,9 @@
  * numerically zero (a degenerate minimum such as x⁴, a flat plateau, or a
  * maximum such as −x⁴, a point on the edge of a step) we probe L at ±h along
  * every eigenvector of a near-zero eigenvalue and fail if it drops; the
- * derivative-free check also probes f at ±h along each direction of Z (a
- * collapsed simplex can sit on a slope). The check's evaluations are counted
+ * derivative-free check also probes f at ±h and ±h/100 along the directions
+ * of Z, their diagonals and a few seeded oblique directions (a collapsed
+ * simplex can sit on a slope, or stagnate next to a non-smooth minimum). The check's evaluations are counted
  * like any other.
  */
 import { EPS, dot, nullSpaceBasis, norm2, normInf, symmetricEigen } from './linalg';
@@ -78,9 +79,29 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 	const normals = [...(ctx.activeNormals ?? []), ...activeBoundNormals(run, p, g0)];
 	const Z = nullSpaceBasis(normals, n);
 	const k = Z.length;
-	if (k === 0) return { ok: true, detail: 'vertex: the active constraints fix the point' };
 	const xs = 1 + normInf(p.x);
 	const L0 = valueL(p);
+	if (ctx.derivativeFree) {
+		// without a gradient a bound we sit on may not be active at all: step inward and look
+		const drop = 1e-12 * Math.max(1, Math.abs(L0));
+		for (let i = 0; i < n; i++) {
+			const dir = p.x[i] <= run.lo[i] ? 1 : p.x[i] >= run.hi[i] ? -1 : 0;
+			if (!dir || run.lo[i] === run.hi[i]) continue;
+			const e = new Array<number>(n).fill(0);
+			e[i] = dir;
+			for (const t of [1e-6 * xs, 1e-4 * xs]) {
+				const y = shifted(run, p.x, e, t);
+				if (!y) continue;
+				try {
+					const q = run.evaluate(y);
+					if (valueL(q) < L0 - drop) return { ok: false, detail: `f decreases from the bound ${dir > 0 ? 'lo' : 'hi'}${i} into the box` };
+				} catch (err) {
+					if (run.stopOutcome(err) !== 'left-domain') throw err;
+				}
+			}
+		}
+	}
+	if (k === 0) return { ok: true, detail: 'vertex: the active constraints fix the point' };
 
 	const tryEval = (y: number[] | null): Point | null => {
 		if (!y) return null;
@@ -111,11 +132,40 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			return q ? valueL(q) : NaN;
 		};
 		const drop = 1e-12 * Math.max(1, Math.abs(L0));
+		// Derivative-free first-order probes: a simplex can collapse on a slope, or
+		// stagnate on a ridge of a non-smooth function where only oblique directions
+		// descend (K. I. M. McKinnon, "Convergence of the Nelder–Mead simplex method
+		// to a nonstationary point", SIAM J. Optim. 9(1):148–158, 1998). Probe ±d at
+		// two scales for d in: the directions of Z, their diagonals (k ≤ 4), and 2k
+		// seeded pseudo-random combinations.
+		const dirs: number[][] = Z.map((z) => z.slice());
+		const combo = (w: number[]) => {
+			const v = new Array<number>(n).fill(0);
+			for (let a = 0; a < k; a++) for (let i = 0; i < n; i++) v[i] += w[a] * Z[a][i];
+			const m = Math.hypot(...v);
+			return m > 0 ? v.map((x) => x / m) : null;
+		};
+		if (k >= 2 && k <= 4)
+			for (let mask = 0; mask < 1 << k; mask++) {
+				const v = combo(Array.from({ length: k }, (_, a) => (mask & (1 << a) ? -1 : 1)));
+				if (v && !(mask & 1)) dirs.push(v); // ±d covers the other half
+			}
+		let seed = 0x9e3779b9 ^ k;
+		const rand = () => {
+			seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
+			return seed / 4294967296 - 0.5;
+		};
+		if (k >= 2) for (let r = 0; r < 2 * k; r++) {
+			const v = combo(Array.from({ length: k }, rand));
+			if (v) dirs.push(v);
+		}
+		for (const d of dirs)
+			for (const t of [1e-6 * xs, -1e-6 * xs, h, -h]) {
+				if (side(d, t) < L0 - drop) return { ok: false, detail: `f decreases from the point along ${fmt(d)} (at a step of ${Math.abs(t).toExponential(0)})` };
+			}
 		for (let a = 0; a < k; a++) {
 			const fp = side(Z[a], h);
 			const fm = side(Z[a], -h);
-			// derivative-free first-order probe: no descent along ±z (a simplex can collapse on a slope)
-			if (fp < L0 - drop || fm < L0 - drop) return { ok: false, detail: `f decreases from the point along ${fmt(Z[a])}` };
 			if (Number.isFinite(fp) && Number.isFinite(fm)) H[a][a] = (fp - 2 * L0 + fm) / (h * h);
 			else if (Number.isFinite(fp)) H[a][a] = (side(Z[a], 2 * h) - 2 * fp + L0) / (h * h);
 			else if (Number.isFinite(fm)) H[a][a] = (side(Z[a], -2 * h) - 2 * fm + L0) / (h * h);
