@@ -2,6 +2,7 @@ import { inviteSchema, memberRemoveSchema, memberRoleSchema } from '$lib/schemas
 import { roleAtLeast, workspaceAccess } from '$lib/server/access';
 import { db } from '$lib/server/db';
 import * as datasetStore from '$lib/server/datasetStore';
+import * as studyStore from '$lib/server/studies/store';
 import { formAction } from '$lib/server/forms';
 import { inviteMember } from '$lib/server/invitations';
 import * as workspaces from '$lib/server/workspaces';
@@ -11,10 +12,11 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async ({ locals, params, url }) => {
 	if (!locals.user) redirect(303, `/login?next=${encodeURIComponent(url.pathname)}`);
 	const { workspace, role } = await workspaceAccess(locals, params.workspace, 'viewer');
-	const [members, invitations, datasets] = await Promise.all([
+	const [members, invitations, datasets, studies] = await Promise.all([
 		workspaces.members(db(), workspace.id),
 		roleAtLeast(role, 'owner') ? workspaces.pendingInvitations(db(), workspace.id) : Promise.resolve([]),
-		datasetStore.listForWorkspace(db(), workspace.id)
+		datasetStore.listForWorkspace(db(), workspace.id),
+		studyStore.listForWorkspace(db(), workspace.id, 50)
 	]);
 	return {
 		workspace: { slug: workspace.slug, name: workspace.name },
@@ -22,7 +24,8 @@ export const load = (async ({ locals, params, url }) => {
 		members,
 		invitations,
 		me: locals.user.email,
-		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, createdAt: d.createdAt }))
+		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, createdAt: d.createdAt })),
+		studies
 	};
 }) satisfies PageServerLoad;
 
