@@ -9,6 +9,8 @@ export const EPSILON = Number.EPSILON;
 export const SQRT_EPSILON = Math.sqrt(Number.EPSILON);
 /** ∛ε: the step that balances truncation and rounding in a central difference. */
 export const CBRT_EPSILON = Math.cbrt(Number.EPSILON);
+/** ε^(1/5): the step for a Richardson-extrapolated central difference. */
+export const FIFTH_ROOT_EPSILON = Math.pow(Number.EPSILON, 0.2);
 /** ε^(1/4): the step for a central second difference. */
 export const QRT_EPSILON = Math.sqrt(Math.sqrt(Number.EPSILON));
 

@@ -6,9 +6,11 @@
  *   row i is left out is exactly (y_i − f(x_i))/(1 − A_ii) (P. Craven,
  *   G. Wahba, 1979, Numer. Math. 31:377–403, Lemma 3.1; P. J. Green,
  *   B. W. Silverman, 1994, §3.2.2). Every other method is refitted without
- *   the row (extrapolation 'extend' so the two end rows can be predicted);
+ *   the row (the end rows are then predicted by extrapolation, see below);
  *   beyond `looMaxPoints` rows an evenly spread subset is refitted and the
- *   result says how many rows were used.
+ *   result says how many rows were used. The natural and smoothing splines
+ *   predict the end rows by linear extrapolation (their minimum-∫f″²
+ *   definition continues linearly); other methods extend the edge piece.
  * - Overshoot: on each data interval [x_i, x_{i+1}], how far the fit leaves
  *   [min(y_i, y_{i+1}), max(y_i, y_{i+1})]. Piecewise fits are examined at the
  *   analytic extrema of each piece (roots of the quadratic f′ of a cubic) and
@@ -20,15 +22,15 @@
  *   counts too) that do not correspond to a turn of the data at a
  *   neighbouring point.
  * - Derivative check: at seeded random points, analytic f′ and f″ against
- *   central differences of f and f′ with step ∛ε·scale (truncation and
- *   rounding balanced, error ≈ ε^(2/3)), kept inside one piece; the worst
- *   relative mismatch is reported.
+ *   central differences of f and f′ (steps h and h/2 combined by Richardson
+ *   extrapolation, h = ε^(1/5)·local length, error ≈ ε^(4/5)), kept inside one
+ *   piece; the worst relative mismatch is reported.
  */
 import { fitCurve } from '../fits/fitCurve';
 import { PiecewisePolynomial } from '../fits/PiecewisePolynomial';
 import { prepareData } from '../fits/prepareData';
 import type { CurveFit } from '../fits/types';
-import { CBRT_EPSILON, mulberry32 } from '../math';
+import { FIFTH_ROOT_EPSILON, mulberry32 } from '../math';
 
 export interface FidelityAudit {
 	/** root-mean-square leave-one-out prediction error (y units) */
@@ -176,6 +178,8 @@ export function auditFidelity(fit: CurveFit, xIn: ArrayLike<number>, yIn: ArrayL
 	let monotoneWorstAt: number | null = null;
 	// Sign of f′ along the examination points, zeros (within tolerance) skipped.
 	const signs: { s: number; x: number }[] = [];
+	let lastSigned = -Infinity;
+	let lastZero = -Infinity;
 	for (let p = 0; p < ex.x.length; p++) {
 		const xv = ex.x[p];
 		if (xv < x[0] || xv > x[n - 1]) continue;
@@ -206,8 +210,15 @@ export function auditFidelity(fit: CurveFit, xIn: ArrayLike<number>, yIn: ArrayL
 		}
 		if (Math.abs(j.df) > slopeTol) {
 			const s = j.df > 0 ? 1 : -1;
-			if (signs.length === 0 || signs[signs.length - 1].s !== s) signs.push({ s, x: xv });
-		}
+			if (signs.length === 0 || signs[signs.length - 1].s !== s) {
+				// Locate the turn: at the zero of f′ met on the way (an analytic root), or by
+				// bisection between the last point of the old sign and this one.
+				let at = xv;
+				if (signs.length > 0) at = lastZero > lastSigned ? lastZero : bisectSlope(fit, lastSigned, xv, -s);
+				signs.push({ s, x: at });
+			}
+			lastSigned = xv;
+		} else lastZero = xv;
 	}
 	const monotoneKept = dataMonotone === null || monotoneWorst <= slopeTol;
 
@@ -286,7 +297,7 @@ function leaveOneOut(
 		}
 		return { rmse: Math.sqrt(sum / n), max, maxAt, method: 'closed-form', points: n };
 	}
-	// Refit without each (selected) row, on the cleaned data, extrapolating the edge piece.
+	// Refit without each (selected) row, on the cleaned data; the end rows by extrapolation.
 	const idx: number[] = [];
 	if (n <= maxPoints) for (let i = 0; i < n; i++) idx.push(i);
 	else {
@@ -298,7 +309,11 @@ function leaveOneOut(
 	// Only the weighted methods take weights (averaged duplicates carry them too).
 	const weighted = fit.method === 'smoothing-spline' || fit.method === 'polynomial-least-squares';
 	const wr = w && weighted ? new Array<number>(n - 1) : undefined;
-	const baseOptions = { ...fit.options, extrapolation: 'extend' as const, duplicates: 'error' as const, nonFinite: 'error' as const };
+	// The end rows are predicted by extrapolating the refit: linearly for the methods whose
+	// variational definition continues linearly beyond the data (natural and smoothing
+	// splines minimise ∫f″², so f″ = 0 outside), otherwise by extending the edge piece.
+	const outward = fit.method === 'cubic-natural' || fit.method === 'smoothing-spline' ? ('linear' as const) : ('extend' as const);
+	const baseOptions = { ...fit.options, extrapolation: outward, duplicates: 'error' as const, nonFinite: 'error' as const };
 	if (fit.method === 'smoothing-spline' && fit.stats.lambda !== undefined) baseOptions.lambda = fit.stats.lambda;
 	let failed = 0;
 	for (const i of idx) {
@@ -340,9 +355,9 @@ function checkDerivatives(fit: CurveFit, points: number, seed: number, meanSpaci
 	let s2 = 0;
 	for (let p = 0; p < points; p++) {
 		let xv = a + W * rnd();
-		// Step ∛ε times the local length scale (the piece, or the mean data spacing of a
-		// global form): truncation (∝ h²·f‴, and f‴ scales like f/L³) and rounding (∝ ε·f/h)
-		// then balance near ε^(2/3) whatever the units.
+		// Step ε^(1/5) times the local length scale (the piece, or the mean data spacing of a
+		// global form): after Richardson extrapolation truncation is ∝ h⁴·f⁽⁵⁾ (and f⁽⁵⁾ scales
+		// like f/L⁵) and rounding ∝ ε·f/h, which balance near ε^(4/5) whatever the units.
 		let h: number;
 		let piece = 0;
 		if (piecewise) {
@@ -355,19 +370,27 @@ function checkDerivatives(fit: CurveFit, points: number, seed: number, meanSpaci
 			}
 			piece = lo;
 			const len = k[lo + 1] - k[lo];
-			h = CBRT_EPSILON * len;
+			h = FIFTH_ROOT_EPSILON * len;
 			// Keep x ± h well inside the piece so both differences see one polynomial.
 			xv = Math.min(Math.max(xv, k[lo] + 3 * h), k[lo + 1] - 3 * h);
 		} else {
-			h = CBRT_EPSILON * meanSpacing;
+			h = FIFTH_ROOT_EPSILON * meanSpacing;
 			xv = Math.min(Math.max(xv, a + 3 * h), b - 3 * h);
 		}
-		const jm = piecewise ? fit.evaluatePiece(piece, xv - h) : fit.evaluate(xv - h);
-		const j0 = piecewise ? fit.evaluatePiece(piece, xv) : fit.evaluate(xv);
-		const jp = piecewise ? fit.evaluatePiece(piece, xv + h) : fit.evaluate(xv + h);
-		const hh = xv + h - (xv - h); // the step actually represented in floating point
-		const d1fd = (jp.f - jm.f) / hh;
-		const d2fd = (jp.df - jm.df) / hh;
+		const ev = (v: number) => (piecewise ? fit.evaluatePiece(piece, v) : fit.evaluate(v));
+		const j0 = ev(xv);
+		// Central differences at steps h and h/2, combined by Richardson extrapolation
+		// (L. F. Richardson, 1911): (4·D(h/2) − D(h))/3 cancels the h² term, leaving O(h⁴).
+		const central = (step: number) => {
+			const jm = ev(xv - step);
+			const jp = ev(xv + step);
+			const hh = xv + step - (xv - step); // the step actually represented in floating point
+			return [(jp.f - jm.f) / hh, (jp.df - jm.df) / hh];
+		};
+		const [a1, a2] = central(h);
+		const [b1, b2] = central(h / 2);
+		const d1fd = (4 * b1 - a1) / 3;
+		const d2fd = (4 * b2 - a2) / 3;
 		s1 = Math.max(s1, Math.abs(j0.df));
 		s2 = Math.max(s2, Math.abs(j0.d2f));
 		samples.push({ x: xv, d1: j0.df, d1fd, d2: j0.d2f, d2fd });
@@ -394,3 +417,14 @@ function checkDerivatives(fit: CurveFit, points: number, seed: number, meanSpaci
 	return { points, worstD1, worstD1At, worstD2, worstD2At };
 }
 
+
+/** The point in [a, b] where f′ leaves the sign `from` (f′ has sign `from` at a and not at b). */
+function bisectSlope(fit: CurveFit, a: number, b: number, from: number): number {
+	for (let k = 0; k < 60 && b - a > 0; k++) {
+		const m = 0.5 * (a + b);
+		if (m <= a || m >= b) break;
+		if (Math.sign(fit.evaluate(m).df) === from) a = m;
+		else b = m;
+	}
+	return b;
+}
