@@ -7,7 +7,6 @@ import {
 	MAX_FILE_BYTES,
 	MAX_NAME_LENGTH,
 	formatMegabytes,
-	limitBytes,
 	parseTable,
 	sha256,
 	validateTable,
@@ -45,22 +44,49 @@ function tooLarge(size?: number): DatasetError {
 }
 
 /**
- * The request body, read whole but never past `max` bytes: a declared
- * Content-Length over the limit is refused before reading, and a streamed body
- * is cut off as soon as it passes the limit. Throws the 413 DatasetError.
+ * The request body, read whole but never held past `max` bytes. A declared
+ * Content-Length over the limit is refused before reading. A streamed body is
+ * kept up to the limit and the rest is read and dropped, up to the server's
+ * BODY_SIZE_LIMIT, which ends the stream: cancelling it instead (as limitBytes
+ * does) makes the server reset the connection, and the client would never
+ * see the 413. Throws the 413 DatasetError.
  */
 export async function readBody(request: Request, max = MAX_UPLOAD_BODY): Promise<Uint8Array> {
 	const declared = Number(request.headers.get('content-length'));
 	if (Number.isFinite(declared) && declared > max) throw tooLarge(declared);
 	if (!request.body) return new Uint8Array(0);
+	const reader = request.body.getReader();
+	const chunks: Uint8Array[] = [];
+	let total = 0;
+	let over = false;
 	try {
-		return await limitBytes(request.body, max);
+		for (;;) {
+			const { done, value } = await reader.read();
+			if (done) break;
+			total += value.byteLength;
+			if (total > max) {
+				over = true;
+				chunks.length = 0;
+				continue;
+			}
+			// copy: the producer may reuse its chunk buffer
+			chunks.push(value.slice());
+		}
 	} catch (e) {
-		if (e instanceof DatasetError) throw tooLarge();
-		// the server's own body limit (BODY_SIZE_LIMIT) errors the stream with a 413
-		if ((e as { status?: number }).status === 413) throw tooLarge();
-		throw e;
+		// the server's own limit errors the stream with a 413
+		if ((e as { status?: number }).status !== 413) throw e;
+		over = true;
+	} finally {
+		reader.releaseLock();
 	}
+	if (over) throw tooLarge();
+	const out = new Uint8Array(total);
+	let at = 0;
+	for (const chunk of chunks) {
+		out.set(chunk, at);
+		at += chunk.byteLength;
+	}
+	return out;
 }
 
 /** A multipart body under the size limit, as FormData. */

@@ -40,7 +40,12 @@ const optionsSchema = z.strictObject(
 		width: finite('width').refine((v) => v > 0, 'width must be a positive length in input units').optional(),
 		slopes: z.tuple([finite('slopes[0]'), finite('slopes[1]')], { error: 'slopes must be [f′ at the first x, f′ at the last x]' }).optional()
 	},
-	{ error: 'options must be an object' }
+	{
+		error: (issue) =>
+			issue.code === 'unrecognized_keys'
+				? `unknown option${issue.keys.length > 1 ? 's' : ''} ${issue.keys.map((k) => `"${k}"`).join(', ')}; the options are extrapolation, degree, lambda, width and slopes`
+				: 'options must be an object'
+	}
 );
 
 export const fitPreviewSchema = z
