@@ -333,7 +333,7 @@ describe('timing', () => {
 		expect(fit.status).toBe(200);
 		console.log(
 			`100,000 × 4 CSV (${(Buffer.byteLength(text) / 1024 / 1024).toFixed(1)} MB) through POST /api/v1/workspaces/:ws/datasets: ${(t1 - t0).toFixed(0)} ms to parse, validate and store; ` +
-				`GET ?rows=1 ${(t3 - t2).toFixed(0)} ms; Akima fit preview ${(p1 - p0).toFixed(0)} ms`
+				`server-timing: ${res.headers.get('server-timing')}; GET ?rows=1 ${(t3 - t2).toFixed(0)} ms; Akima fit preview ${(p1 - p0).toFixed(0)} ms`
 		);
 	});
 });

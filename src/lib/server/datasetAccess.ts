@@ -39,14 +39,18 @@ export function datasetJson(d: datasetStore.DatasetMeta) {
 	};
 }
 
-/** Column-major arrays → row-major rows (the shape the JSON upload takes). */
-export function rowsOf(data: Float64Array[], rowCount: number): number[][] {
-	const rows: number[][] = new Array(rowCount);
+/**
+ * Column-major arrays → the JSON text of row-major rows, `[[x, y], …]`, built
+ * directly: stored values are always finite, and String(v) writes a number
+ * exactly as JSON.stringify does, without a hundred thousand little arrays.
+ */
+export function rowsJson(data: Float64Array[], rowCount: number): string {
+	const parts: string[] = new Array(rowCount);
 	const k = data.length;
 	for (let i = 0; i < rowCount; i++) {
-		const r = new Array<number>(k);
-		for (let j = 0; j < k; j++) r[j] = data[j][i];
-		rows[i] = r;
+		let row = '[' + String(data[0][i]);
+		for (let j = 1; j < k; j++) row += ',' + String(data[j][i]);
+		parts[i] = row + ']';
 	}
-	return rows;
+	return '[' + parts.join(',') + ']';
 }

@@ -34,6 +34,14 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 	const { workspace, user } = await workspaceAccess(locals, params.ws, 'editor');
 	const dryRun = ['1', 'true'].includes(url.searchParams.get('dryRun') ?? '');
 	const type = (request.headers.get('content-type') ?? '').toLowerCase();
+	// Server-Timing tells a script where an upload's time went (read, parse, validate, store).
+	const timing: string[] = [];
+	let mark = performance.now();
+	const lap = (name: string) => {
+		const now = performance.now();
+		timing.push(`${name};dur=${(now - mark).toFixed(1)}`);
+		mark = now;
+	};
 	try {
 		let name: string;
 		let description: string | undefined;
@@ -48,6 +56,7 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 			if (!source || source.kind !== 'file') {
 				throw new DatasetError('invalid-body', 'the form has no file; send the table in a field called "file"', [{ field: 'file', problem: 'missing' }]);
 			}
+			lap('read');
 			parsed = await upload.parseSource(source);
 			name = fields.name ?? upload.defaultName(source);
 			description = fields.description;
@@ -56,6 +65,7 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 			filename = source.filename;
 		} else if (type.startsWith('application/json')) {
 			bytes = await upload.readBody(request);
+			lap('read');
 			let body: unknown;
 			try {
 				body = JSON.parse(new TextDecoder().decode(bytes));
@@ -72,14 +82,17 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 			fail4xx(400, 'send the table as multipart/form-data (field "file") or as application/json { name, columns, rows }', 'unsupported-content-type');
 		}
 
+		lap('parse');
 		const report = upload.check(parsed, roles);
+		lap('validate');
 		if (dryRun) {
 			const version = (await datasetStore.latestVersion(db(), workspace.id, name)) + 1;
 			const { head: _head, ...summary } = upload.uploadReport(parsed, report, name, version, filename);
-			return json({ dryRun: true, ...summary });
+			return json({ dryRun: true, ...summary }, { headers: { 'server-timing': timing.join(', ') } });
 		}
 		if (!report.ok) return json(reportErrorBody(report), { status: 422 });
 		const meta = await upload.save(db(), { workspaceId: workspace.id, userId: user.id, name, description, parsed, report, filename, bytes });
+		lap('store');
 		return json(
 			{
 				id: meta.id,
@@ -91,7 +104,7 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 				// what the uploader should know: warnings first, then how the file was read
 				warnings: [...meta.warnings, ...meta.notes]
 			},
-			{ status: 201, headers: { location: `/api/v1/datasets/${meta.id}` } }
+			{ status: 201, headers: { location: `/api/v1/datasets/${meta.id}`, 'server-timing': timing.join(', ') } }
 		);
 	} catch (e) {
 		if (e instanceof DatasetError) return json(e.body(), { status: e.status });
