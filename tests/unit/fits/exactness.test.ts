@@ -242,6 +242,30 @@ describe('evaluation paths', () => {
 			expect(a.outside).toBeGreaterThan(0);
 		});
 	}
+	it('random points over very uneven knots (bucket index with empty and crowded buckets) match bisection', () => {
+		// knots spread over 12 decades: most buckets are empty, the first holds hundreds of pieces
+		const x = Array.from({ length: 400 }, (_, i) => 10 ** (-6 + (12 * i) / 399) - 1e-6);
+		const y = x.map((v, i) => Math.sin(i) + Math.log1p(v));
+		const fit = fitCurve('akima', x, y) as PiecewisePolynomial;
+		const rnd = (s => () => ((s = (s * 16807) % 2147483647) / 2147483647))(12345);
+		const pts = Float64Array.from({ length: 20000 }, (_, i) => (i % 3 === 0 ? x[Math.floor(rnd() * 400)] : i % 3 === 1 ? 1e-6 * rnd() : x[399] * rnd()));
+		const r = fit.evaluateMany(pts);
+		for (let p = 0; p < pts.length; p++) {
+			const j = fit.evaluatePiece(fit.findPiece(pts[p]), pts[p]);
+			expect(r.f[p] === j.f && r.df[p] === j.df && r.d2f[p] === j.d2f).toBe(true);
+		}
+	});
+	it('evaluateValues equals evaluateMany(...).f for every method, in any order and outside the data', () => {
+		const d = unevenRough(40, 17);
+		const pts = Float64Array.from({ length: 3001 }, (_, i) => d.x[0] - 1 + ((d.x[39] - d.x[0] + 2) * ((i * 977) % 3001)) / 3000);
+		for (const method of METHODS) {
+			const xs = method === 'polynomial-global' ? d.x.slice(0, 10) : d.x;
+			const fit = fitCurve(method, xs, d.y.slice(0, xs.length), { ...optionsFor(method), extrapolation: 'linear' });
+			expect(sameBits(fit.evaluateValues(pts), fit.evaluateMany(pts).f)).toBe(true);
+			const buf = new Float64Array(pts.length);
+			expect(fit.evaluateValues(pts, buf)).toBe(buf);
+		}
+	});
 	it('reuses caller buffers', () => {
 		const fit = fitCurve('pchip', x, y);
 		const f = new Float64Array(10);

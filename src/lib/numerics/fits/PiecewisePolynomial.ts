@@ -71,6 +71,8 @@ export function invalidPoint(x: number): FitError {
 	return new FitError('invalid-point', `cannot evaluate at x = ${x}`);
 }
 
+const EMPTY_INDEX = new Int32Array(1);
+
 export class PiecewisePolynomial implements CurveFit {
 	readonly method: CurveMethod;
 	readonly continuity: Continuity;
@@ -180,6 +182,25 @@ export class PiecewisePolynomial implements CurveFit {
 	evaluateMany(xs: ArrayLike<number>, out?: ManyOut): ManyResult {
 		const n = xs.length;
 		const { f, df, d2f } = manyBuffers(n, out);
+		const outside = this.batch(xs, f, df, d2f, true);
+		return { f, df, d2f, outside };
+	}
+
+	/** Values only (no derivatives), same search; `out` is reused when long enough. */
+	evaluateValues(xs: ArrayLike<number>, out?: Float64Array): Float64Array {
+		const f = out && out.length >= xs.length ? out : new Float64Array(xs.length);
+		this.batch(xs, f, f, f, false);
+		return f;
+	}
+
+	/**
+	 * The batch kernel. Each point first tries the piece of the previous point and
+	 * the one after it — a sorted batch therefore walks the knots like a cursor,
+	 * O(points + knots) in all — and otherwise locates its piece through the
+	 * bucket index (or by bisection until the index pays for itself).
+	 */
+	private batch(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array, full: boolean): number {
+		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
 		const m = this.pieces;
@@ -187,64 +208,116 @@ export class PiecewisePolynomial implements CurveFit {
 		const lo = this.domain[0];
 		const hi = this.domain[1];
 		const deg = this.degree;
-		// One cheap pass decides the search: sorted batches walk a cursor forward
-		// (each knot and each point visited once), others binary-search.
-		let sorted = true;
-		for (let p = 1; p < n; p++) {
-			if (!(xs[p] >= xs[p - 1])) {
-				sorted = false;
-				break;
-			}
-		}
 		let outside = 0;
+		let misses = 0;
+		// The bucket index, in locals (see buildIndex); empty until it pays for itself.
+		let bStart = this.index ? this.index.start : EMPTY_INDEX;
+		let bInv = this.index ? this.index.inv : 0;
+		let bLast = this.index ? this.index.nb - 1 : -1;
 		let i = 0;
+		let left = k[0];
+		let right = m > 1 ? k[1] : Infinity; // the last piece is open to the right (x ≤ hi is checked first)
 		for (let p = 0; p < n; p++) {
 			const x = xs[p];
 			if (!(x >= lo && x <= hi)) {
 				const j = this.outsideJet(x);
 				f[p] = j.f;
-				df[p] = j.df;
-				d2f[p] = j.d2f;
+				if (full) {
+					df[p] = j.df;
+					d2f[p] = j.d2f;
+				}
 				outside++;
 				continue;
 			}
-			if (sorted) {
-				while (i < last && x >= k[i + 1]) i++;
-			} else {
-				let a = 0;
-				let b = m;
-				while (b - a > 1) {
-					const mid = (a + b) >>> 1;
-					if (x < k[mid]) b = mid;
-					else a = mid;
+			if (x < left || x >= right) {
+				if (x >= right && (i + 1 === last || x < k[i + 2])) {
+					i++;
+				} else if (bLast >= 0 || ++misses > 32) {
+					if (bLast < 0) {
+						const ix = this.buildIndex();
+						bStart = ix.start;
+						bInv = ix.inv;
+						bLast = ix.nb - 1;
+					}
+					// Bucket of x, then bisection between the pieces at its two edges.
+					let b = ((x - lo) * bInv) | 0;
+					if (b > bLast) b = bLast;
+					let a = bStart[b];
+					let e = bStart[b + 1] + 1;
+					if (e > m) e = m;
+					while (e - a > 1) {
+						const mid = (a + e) >>> 1;
+						if (x < k[mid]) e = mid;
+						else a = mid;
+					}
+					// Bucket edges are rounded; a point on the wrong side of one falls back to bisection.
+					i = x < k[a] || (a < last && x >= k[a + 1]) ? this.findPiece(x) : a;
+				} else {
+					i = this.findPiece(x);
 				}
-				i = a;
+				left = k[i];
+				right = i < last ? k[i + 1] : Infinity;
 			}
-			const s = x - k[i];
+			const s = x - left;
 			if (deg === 3) {
 				const o = i << 2;
 				const c1 = c[o + 1];
 				const c2 = c[o + 2];
 				const c3 = c[o + 3];
 				f[p] = c[o] + s * (c1 + s * (c2 + s * c3));
-				df[p] = c1 + s * (2 * c2 + 3 * c3 * s);
-				d2f[p] = 2 * c2 + 6 * c3 * s;
+				if (full) {
+					df[p] = c1 + s * (2 * c2 + 3 * c3 * s);
+					d2f[p] = 2 * c2 + 6 * c3 * s;
+				}
 			} else if (deg === 1) {
 				const o = i << 1;
 				const c1 = c[o + 1];
 				f[p] = c[o] + s * c1;
-				df[p] = c1;
-				d2f[p] = 0;
+				if (full) {
+					df[p] = c1;
+					d2f[p] = 0;
+				}
 			} else {
 				const o = 3 * i;
 				const c1 = c[o + 1];
 				const c2 = c[o + 2];
 				f[p] = c[o] + s * (c1 + s * c2);
-				df[p] = c1 + 2 * c2 * s;
-				d2f[p] = 2 * c2;
+				if (full) {
+					df[p] = c1 + 2 * c2 * s;
+					d2f[p] = 2 * c2;
+				}
 			}
 		}
-		return { f, df, d2f, outside };
+		return outside;
+	}
+
+	/**
+	 * Search index for points in random order, built on first need and never
+	 * serialised: the domain is cut into as many equal buckets as there are
+	 * pieces, and start[b] is the piece holding the left end of bucket b. A
+	 * point's piece then lies between start[b] and start[b + 1], usually the
+	 * same or the next one, so a lookup costs one multiply and a step or two of
+	 * bisection instead of log2(pieces) steps with a cache miss each. Costs one
+	 * 32-bit integer per piece (half a double per knot).
+	 */
+	private index: { start: Int32Array; inv: number; nb: number } | null = null;
+
+	private buildIndex(): { start: Int32Array; inv: number; nb: number } {
+		const k = this.knots;
+		const m = this.pieces;
+		const lo = this.domain[0];
+		const width = this.domain[1] - lo;
+		const nb = m;
+		const inv = nb / width;
+		const start = new Int32Array(nb + 1);
+		let i = 0;
+		for (let b = 0; b <= nb; b++) {
+			const xb = lo + b / inv;
+			while (i < m - 1 && k[i + 1] <= xb) i++;
+			start[b] = i;
+		}
+		this.index = { start, inv, nb };
+		return this.index;
 	}
 
 	toJSON(): FitFileBase {
@@ -297,19 +370,38 @@ export class PiecewisePolynomial implements CurveFit {
  *   c0 = y_i, c1 = t_i, c2 = (m − t_i)/h − τ, c3 = τ/h, with τ = (t_i + t_{i+1} − 2m)/h.
  * The operations are in the order SciPy's CubicHermiteSpline uses, so shared
  * slopes give coefficients that agree to the last bit or two.
+ *
+ * In place: `buf` has 4n entries and holds t_i at buf[4i + 1] for every knot
+ * (the last slope in the spare fifth-from-last slot); each piece's other three
+ * entries are scratch for the slope solvers until this pass overwrites them.
+ * Returns the 4(n − 1) coefficients as a view of `buf` — so a cubic keeps
+ * n knots + 4n doubles, and the build allocates nothing else.
  */
-export function hermiteCoefficients(x: Float64Array, y: Float64Array, t: Float64Array): Float64Array {
+export function hermiteInPlace(x: Float64Array, y: ArrayLike<number>, buf: Float64Array): Float64Array {
 	const m = x.length - 1;
-	const c = new Float64Array(4 * m);
+	let xi = x[0];
+	let yi = y[0];
+	let ti = buf[1];
 	for (let i = 0, o = 0; i < m; i++, o += 4) {
-		const h = x[i + 1] - x[i];
-		const slope = (y[i + 1] - y[i]) / h;
-		const ti = t[i];
-		const tau = (ti + t[i + 1] - 2 * slope) / h;
-		c[o] = y[i];
-		c[o + 1] = ti;
-		c[o + 2] = (slope - ti) / h - tau;
-		c[o + 3] = tau / h;
+		const xn = x[i + 1];
+		const yn = y[i + 1];
+		const tn = buf[o + 5];
+		const h = xn - xi;
+		const slope = (yn - yi) / h;
+		const tau = (ti + tn - 2 * slope) / h;
+		buf[o] = yi;
+		buf[o + 2] = (slope - ti) / h - tau;
+		buf[o + 3] = tau / h;
+		xi = xn;
+		yi = yn;
+		ti = tn;
 	}
-	return c;
+	return buf.subarray(0, 4 * m);
+}
+
+/** Hermite coefficients from a separate slope array (allocates; see hermiteInPlace). */
+export function hermiteCoefficients(x: Float64Array, y: ArrayLike<number>, t: ArrayLike<number>): Float64Array {
+	const buf = new Float64Array(4 * x.length);
+	for (let i = 0; i < x.length; i++) buf[4 * i + 1] = t[i];
+	return hermiteInPlace(x, y, buf);
 }

@@ -5,8 +5,8 @@
  * |m_{i−1} + m_{i−2}|/2 (see akimaSlopes): flat runs stay flat without ripples
  * beside them, and the slope is 0 where all four neighbouring secants are 0.
  */
-import { akimaSlopes } from './akimaSlopes';
-import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { akimaSlopesInto } from './akimaSlopes';
+import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 
@@ -17,7 +17,8 @@ export function akimaModified(x: ArrayLike<number>, y: ArrayLike<number>, option
 		minPoints: 3,
 		minReason: 'the end secants are extended from the two nearest'
 	});
-	const t = akimaSlopes(d.x, d.y, true);
-	const c = hermiteCoefficients(d.x, d.y, t);
+	const buf = new Float64Array(4 * d.x.length);
+	akimaSlopesInto(d.x, d.y, true, buf, 4, 1);
+	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'akima-modified', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

@@ -6,15 +6,16 @@
  * identical to SciPy 1.10's Akima1DInterpolator). Unlike that class, our fit
  * states an extrapolation rule instead of returning NaN outside the data.
  */
-import { akimaSlopes } from './akimaSlopes';
-import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { akimaSlopesInto } from './akimaSlopes';
+import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 
 export function akima(x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions): PiecewisePolynomial {
 	const opts = resolveOptions(options, 'akima');
 	const d = prepareData(x, y, opts, { label: 'akima', minPoints: 3, minReason: 'the end secants are extended from the two nearest' });
-	const t = akimaSlopes(d.x, d.y, false);
-	const c = hermiteCoefficients(d.x, d.y, t);
+	const buf = new Float64Array(4 * d.x.length);
+	akimaSlopesInto(d.x, d.y, false, buf, 4, 1);
+	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'akima', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

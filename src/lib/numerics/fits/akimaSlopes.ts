@@ -22,42 +22,70 @@
  * weights vanish only when all four secants are zero, where t_i = 0.
  */
 
-export function akimaSlopes(x: Float64Array, y: Float64Array, modified: boolean): Float64Array {
-	const n = x.length;
-	// Extended secants: e[k + 2] = m_k for k = −2 … n; two extra on each side.
-	const e = new Float64Array(n + 3);
-	for (let i = 0; i < n - 1; i++) e[i + 2] = (y[i + 1] - y[i]) / (x[i + 1] - x[i]);
-	e[1] = 2 * e[2] - e[3];
-	e[0] = 2 * e[1] - e[2];
-	e[n + 1] = 2 * e[n] - e[n - 1];
-	e[n + 2] = 2 * e[n + 1] - e[n];
-
-	const t = new Float64Array(n);
-	if (modified) {
-		for (let i = 0; i < n; i++) {
-			const mm2 = e[i];
-			const mm1 = e[i + 1];
-			const m0 = e[i + 2];
-			const mp1 = e[i + 3];
-			const w1 = Math.abs(mp1 - m0) + 0.5 * Math.abs(mp1 + m0);
-			const w2 = Math.abs(mm1 - mm2) + 0.5 * Math.abs(mm1 + mm2);
-			const sw = w1 + w2;
-			t[i] = sw === 0 ? 0 : (w1 * mm1 + w2 * m0) / sw;
-		}
-		return t;
-	}
-	// Original Akima: the tie threshold is relative to the largest w1 + w2, so two passes.
-	let big = -Infinity;
-	for (let i = 0; i < n; i++) {
-		const f12 = Math.abs(e[i + 3] - e[i + 2]) + Math.abs(e[i + 1] - e[i]);
-		if (f12 > big) big = f12;
-	}
-	const cut = 1e-9 * big;
-	for (let i = 0; i < n; i++) {
-		const f1 = Math.abs(e[i + 3] - e[i + 2]);
-		const f2 = Math.abs(e[i + 1] - e[i]);
-		const f12 = f1 + f2;
-		t[i] = f12 > cut ? (f1 * e[i + 1] + f2 * e[i + 2]) / f12 : 0.5 * (e[i + 3] + e[i]);
-	}
+/** Akima (or modified Akima) knot slopes as a new array (see akimaSlopesInto). */
+export function akimaSlopes(x: Float64Array, y: ArrayLike<number>, modified: boolean): Float64Array {
+	const t = new Float64Array(x.length);
+	akimaSlopesInto(x, y, modified, t, 1, 0);
 	return t;
+}
+
+/**
+ * Writes t_i to out[offset + stride·i]. The secants are carried along in a
+ * window of four (m_{i−2} … m_{i+1}); the two extended secants at each end
+ * are computed once. Original Akima makes two passes because its tie
+ * threshold is relative to the largest weight sum over all knots.
+ */
+export function akimaSlopesInto(x: Float64Array, y: ArrayLike<number>, modified: boolean, out: Float64Array, stride: number, offset: number): void {
+	const n = x.length;
+	const sec = (k: number) => (y[k + 1] - y[k]) / (x[k + 1] - x[k]);
+	// Extended secants m_{−2}, m_{−1} and m_{n−1}, m_n.
+	const m0 = sec(0);
+	const m1 = sec(1);
+	const mm1 = 2 * m0 - m1;
+	const mm2 = 2 * mm1 - m0;
+	const mLast = sec(n - 2);
+	const mLast1 = sec(n - 3);
+	const mp1 = 2 * mLast - mLast1;
+	const mp2 = 2 * mp1 - mLast;
+	// Secant m_k for k = −2 … n (only at the window's leading edge).
+	const secant = (k: number) => (k <= -2 ? mm2 : k === -1 ? mm1 : k <= n - 2 ? sec(k) : k === n - 1 ? mp1 : mp2);
+
+	let cut = 0;
+	if (!modified) {
+		let big = -Infinity;
+		let a = mm2;
+		let b = mm1;
+		let c = m0;
+		for (let i = 0; i < n; i++) {
+			const d = secant(i + 1);
+			const f12 = Math.abs(d - c) + Math.abs(b - a);
+			if (f12 > big) big = f12;
+			a = b;
+			b = c;
+			c = d;
+		}
+		cut = 1e-9 * big;
+	}
+	let a = mm2; // m_{i−2}
+	let b = mm1; // m_{i−1}
+	let c = m0; // m_i
+	for (let i = 0; i < n; i++) {
+		const d = secant(i + 1); // m_{i+1}
+		let t: number;
+		if (modified) {
+			const w1 = Math.abs(d - c) + 0.5 * Math.abs(d + c);
+			const w2 = Math.abs(b - a) + 0.5 * Math.abs(b + a);
+			const sw = w1 + w2;
+			t = sw === 0 ? 0 : (w1 * b + w2 * c) / sw;
+		} else {
+			const f1 = Math.abs(d - c);
+			const f2 = Math.abs(b - a);
+			const f12 = f1 + f2;
+			t = f12 > cut ? (f1 * b + f2 * c) / f12 : 0.5 * (d + a);
+		}
+		out[offset + stride * i] = t;
+		a = b;
+		b = c;
+		c = d;
+	}
 }

@@ -4,9 +4,9 @@
  * end slopes come from options.slopes). With exact end slopes it reproduces
  * every cubic.
  */
-import { cubicSplineSlopes } from './cubicSplineSlopes';
+import { cubicSplineSlopesInto } from './cubicSplineSlopes';
 import { FitError } from './FitError';
-import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 
@@ -17,7 +17,9 @@ export function cubicClamped(x: ArrayLike<number>, y: ArrayLike<number>, options
 		throw new FitError('missing-slopes', 'cubic-clamped needs options.slopes = [f′ at the first x, f′ at the last x] (two finite numbers)');
 	}
 	const d = prepareData(x, y, opts, { label: 'cubic-clamped', minPoints: 2 });
-	const t = cubicSplineSlopes(d.x, d.y, { kind: 'clamped', slope: sl[0] }, { kind: 'clamped', slope: sl[1] });
-	const c = hermiteCoefficients(d.x, d.y, t);
+	// Slopes into slot 1 of each piece, sweep scratch in slot 2; the Hermite pass then fills the rest.
+	const buf = new Float64Array(4 * d.x.length);
+	cubicSplineSlopesInto(d.x, d.y, { kind: 'clamped', slope: sl[0] }, { kind: 'clamped', slope: sl[1] }, buf, 4, 1, 2);
+	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'cubic-clamped', continuity: 'C2', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

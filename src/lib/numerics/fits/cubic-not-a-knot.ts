@@ -5,16 +5,18 @@
  * Splines, chapter IV). Reproduces every cubic exactly. Two points give the
  * line, three the parabola through them.
  */
-import { cubicSplineSlopes } from './cubicSplineSlopes';
-import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { cubicSplineSlopesInto } from './cubicSplineSlopes';
+import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 
 export function cubicNotAKnot(x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions): PiecewisePolynomial {
 	const opts = resolveOptions(options, 'cubic-not-a-knot');
 	const d = prepareData(x, y, opts, { label: 'cubic-not-a-knot', minPoints: 2 });
-	const t = cubicSplineSlopes(d.x, d.y, { kind: 'not-a-knot' }, { kind: 'not-a-knot' });
-	const c = hermiteCoefficients(d.x, d.y, t);
+	// Slopes into slot 1 of each piece, sweep scratch in slot 2; the Hermite pass then fills the rest.
+	const buf = new Float64Array(4 * d.x.length);
+	cubicSplineSlopesInto(d.x, d.y, { kind: 'not-a-knot' }, { kind: 'not-a-knot' }, buf, 4, 1, 2);
+	const c = hermiteInPlace(d.x, d.y, buf);
 	if (d.x.length === 2) d.notes.push('two points: not-a-knot gives the straight line');
 	if (d.x.length === 3) d.notes.push('three points: not-a-knot gives the parabola through them');
 	return new PiecewisePolynomial({

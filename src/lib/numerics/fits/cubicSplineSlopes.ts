@@ -19,21 +19,47 @@ export type SplineEnd =
 	| { kind: 'not-a-knot' }
 	| { kind: 'clamped'; slope: number };
 
-export function cubicSplineSlopes(x: Float64Array, y: Float64Array, start: SplineEnd, end: SplineEnd): Float64Array {
+/** The knot slopes as a new array (see cubicSplineSlopesInto). */
+export function cubicSplineSlopes(x: Float64Array, y: ArrayLike<number>, start: SplineEnd, end: SplineEnd): Float64Array {
+	const n = x.length;
+	const buf = new Float64Array(2 * n);
+	cubicSplineSlopesInto(x, y, start, end, buf, 2, 0, 1);
+	const t = new Float64Array(n);
+	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
+	return t;
+}
+
+/**
+ * Solves for the knot slopes, writing s_i to buf[offset + stride·i] and using
+ * buf[scratch + stride·i] for the sweep's modified super-diagonal — so the
+ * solve needs no memory beyond the caller's buffer (the cubic builders pass
+ * their coefficient buffer: slopes in slot 1, scratch in slot 2 of each piece).
+ */
+export function cubicSplineSlopesInto(
+	x: Float64Array,
+	y: ArrayLike<number>,
+	start: SplineEnd,
+	end: SplineEnd,
+	buf: Float64Array,
+	stride: number,
+	offset: number,
+	scratch: number
+): void {
 	const n = x.length;
 	const N = n - 1;
-	const s = new Float64Array(n);
+	const S = (i: number) => offset + stride * i;
+	const C = (i: number) => scratch + stride * i;
 	if (n === 2) {
 		// One interval: not-a-knot and natural both give the straight line (as SciPy).
 		const m = (y[1] - y[0]) / (x[1] - x[0]);
-		s[0] = start.kind === 'clamped' ? start.slope : m;
-		s[1] = end.kind === 'clamped' ? end.slope : m;
-		if (start.kind === 'natural' && end.kind === 'clamped') s[0] = (3 * m - s[1]) / 2;
-		if (end.kind === 'natural' && start.kind === 'clamped') s[1] = (3 * m - s[0]) / 2;
-		return s;
+		let s0 = start.kind === 'clamped' ? start.slope : m;
+		let s1 = end.kind === 'clamped' ? end.slope : m;
+		if (start.kind === 'natural' && end.kind === 'clamped') s0 = (3 * m - s1) / 2;
+		if (end.kind === 'natural' && start.kind === 'clamped') s1 = (3 * m - s0) / 2;
+		buf[S(0)] = s0;
+		buf[S(1)] = s1;
+		return;
 	}
-	// cp = modified super-diagonal of the forward sweep; s holds the modified rhs, then the solution.
-	const cp = new Float64Array(n);
 	const notAKnot3 = n === 3 && start.kind === 'not-a-knot' && end.kind === 'not-a-knot';
 
 	// Row 0.
@@ -64,19 +90,33 @@ export function cubicSplineSlopes(x: Float64Array, y: Float64Array, start: Splin
 		c0 = 0;
 		r0 = start.slope;
 	}
-	cp[0] = c0 / b0;
-	s[0] = r0 / b0;
+	// cp = the sweep's modified super-diagonal, sp = its modified right-hand side
+	// (kept in registers; written to the buffer for the back substitution).
+	let cp = c0 / b0;
+	let sp = r0 / b0;
+	buf[C(0)] = cp;
+	buf[S(0)] = sp;
 
 	// Interior rows 1..N−1, fused with the forward sweep.
 	let mPrev = m0;
+	let xl = x[0];
+	let xc = x[1];
+	let yc = y[1];
 	for (let i = 1; i < N; i++) {
-		const hl = x[i] - x[i - 1];
-		const hr = x[i + 1] - x[i];
-		const mr = (y[i + 1] - y[i]) / hr;
-		const denom = 2 * (hl + hr) - hr * cp[i - 1];
-		cp[i] = hl / denom;
-		s[i] = (3 * (hr * mPrev + hl * mr) - hr * s[i - 1]) / denom;
+		const xr = x[i + 1];
+		const yr = y[i + 1];
+		const hl = xc - xl;
+		const hr = xr - xc;
+		const mr = (yr - yc) / hr;
+		const denom = 2 * (hl + hr) - hr * cp;
+		cp = hl / denom;
+		sp = (3 * (hr * mPrev + hl * mr) - hr * sp) / denom;
+		buf[scratch + stride * i] = cp;
+		buf[offset + stride * i] = sp;
 		mPrev = mr;
+		xl = xc;
+		xc = xr;
+		yc = yr;
 	}
 
 	// Row N.
@@ -107,7 +147,10 @@ export function cubicSplineSlopes(x: Float64Array, y: Float64Array, start: Splin
 		bN = 1;
 		rN = end.slope;
 	}
-	s[N] = (rN - aN * s[N - 1]) / (bN - aN * cp[N - 1]);
-	for (let i = N - 1; i >= 0; i--) s[i] -= cp[i] * s[i + 1];
-	return s;
+	let next = (rN - aN * sp) / (bN - aN * cp);
+	buf[S(N)] = next;
+	for (let i = N - 1; i >= 0; i--) {
+		next = buf[offset + stride * i] - buf[scratch + stride * i] * next;
+		buf[offset + stride * i] = next;
+	}
 }

@@ -18,16 +18,23 @@
  * it exceeds 3|m0| — the rule of SciPy's PchipInterpolator, which this matches
  * operation for operation.
  */
-import { PiecewisePolynomial, hermiteCoefficients } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 
-export function pchipSlopes(x: Float64Array, y: Float64Array): Float64Array {
+/** PCHIP knot slopes as a new array (see pchipSlopesInto). */
+export function pchipSlopes(x: Float64Array, y: ArrayLike<number>): Float64Array {
+	const t = new Float64Array(x.length);
+	pchipSlopesInto(x, y, t, 1, 0);
+	return t;
+}
+
+/** Writes t_i to out[offset + stride·i]; one pass with the secants carried along. */
+export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Float64Array, stride: number, offset: number): void {
 	const n = x.length;
-	const t = new Float64Array(n);
 	if (n === 2) {
-		t[0] = t[1] = (y[1] - y[0]) / (x[1] - x[0]);
-		return t;
+		out[offset] = out[offset + stride] = (y[1] - y[0]) / (x[1] - x[0]);
+		return;
 	}
 	let hl = x[1] - x[0];
 	let ml = (y[1] - y[0]) / hl;
@@ -35,22 +42,26 @@ export function pchipSlopes(x: Float64Array, y: Float64Array): Float64Array {
 	const m0 = ml;
 	let hr = 0;
 	let mr = 0;
+	let hPrev = 0;
+	let mPrev = 0;
 	for (let i = 1; i < n - 1; i++) {
 		hr = x[i + 1] - x[i];
 		mr = (y[i + 1] - y[i]) / hr;
-		if (Math.sign(ml) !== Math.sign(mr) || ml === 0 || mr === 0) {
-			t[i] = 0;
-		} else {
+		let t = 0;
+		if (!(Math.sign(ml) !== Math.sign(mr) || ml === 0 || mr === 0)) {
 			const w1 = 2 * hr + hl;
 			const w2 = hr + 2 * hl;
-			t[i] = 1.0 / ((w1 / ml + w2 / mr) / (w1 + w2));
+			t = 1.0 / ((w1 / ml + w2 / mr) / (w1 + w2));
 		}
+		out[offset + stride * i] = t;
+		hPrev = hl;
+		mPrev = ml;
 		hl = hr;
 		ml = mr;
 	}
-	t[0] = endSlope(h0, (x[2] - x[1]), m0, (y[2] - y[1]) / (x[2] - x[1]));
-	t[n - 1] = endSlope(hr, x[n - 2] - x[n - 3], mr, (y[n - 2] - y[n - 3]) / (x[n - 2] - x[n - 3]));
-	return t;
+	out[offset] = endSlope(h0, x[2] - x[1], m0, (y[2] - y[1]) / (x[2] - x[1]));
+	// hr, mr: the last interval; hPrev, mPrev: the one before it.
+	out[offset + stride * (n - 1)] = endSlope(hr, hPrev, mr, mPrev);
 }
 
 function endSlope(h0: number, h1: number, m0: number, m1: number): number {
@@ -63,7 +74,8 @@ function endSlope(h0: number, h1: number, m0: number, m1: number): number {
 export function pchip(x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions): PiecewisePolynomial {
 	const opts = resolveOptions(options, 'pchip');
 	const d = prepareData(x, y, opts, { label: 'pchip', minPoints: 2 });
-	const t = pchipSlopes(d.x, d.y);
-	const c = hermiteCoefficients(d.x, d.y, t);
+	const buf = new Float64Array(4 * d.x.length);
+	pchipSlopesInto(d.x, d.y, buf, 4, 1);
+	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'pchip', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

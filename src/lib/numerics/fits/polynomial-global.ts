@@ -142,6 +142,12 @@ export class BarycentricPolynomial implements CurveFit {
 		return { f, df, d2f, outside };
 	}
 
+	evaluateValues(xs: ArrayLike<number>, out?: Float64Array): Float64Array {
+		const f = out && out.length >= xs.length ? out : new Float64Array(xs.length);
+		for (let p = 0; p < xs.length; p++) f[p] = this.evaluate(xs[p]).f;
+		return f;
+	}
+
 	toJSON(): FitFileBase {
 		return {
 			format: FIT_FILE_FORMAT,
@@ -232,5 +238,6 @@ export function polynomialGlobal(x: ArrayLike<number>, y: ArrayLike<number>, opt
 	}
 	const notes = d.notes;
 	if (n > 20) notes.push(`one polynomial of degree ${n - 1} through ${n} points: expect ringing between points, worst near the ends`);
-	return new BarycentricPolynomial({ options: opts, nodes: xs, values: ys, weights: w, slopes: s1, curvatures: s2, notes });
+	// prepareData may hand back the caller's y; the fit keeps its own copy.
+	return new BarycentricPolynomial({ options: opts, nodes: xs, values: Float64Array.from(ys), weights: w, slopes: s1, curvatures: s2, notes });
 }

@@ -122,6 +122,12 @@ export class ScaledPolynomial implements CurveFit {
 		return { f, df, d2f, outside };
 	}
 
+	evaluateValues(xs: ArrayLike<number>, out?: Float64Array): Float64Array {
+		const f = out && out.length >= xs.length ? out : new Float64Array(xs.length);
+		for (let p = 0; p < xs.length; p++) f[p] = this.evaluate(xs[p]).f;
+		return f;
+	}
+
 	toJSON(): FitFileBase {
 		return {
 			format: FIT_FILE_FORMAT,

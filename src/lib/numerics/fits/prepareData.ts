@@ -9,7 +9,7 @@ import type { CurveFitOptions } from './types';
 export interface PreparedData {
 	/** strictly increasing abscissae */
 	x: Float64Array;
-	/** ordinates matching x */
+	/** ordinates matching x — may be the caller's own array (fast path): read it, never keep or modify it */
 	y: Float64Array;
 	/** weight per point (the input weights; averaged duplicates carry the summed weight of their group) */
 	w: Float64Array | null;
@@ -56,6 +56,28 @@ export function prepareData(
 		}
 	}
 	const nIn = xIn.length;
+
+	// Fast path, the common case: finite, strictly increasing x, finite y, no weights —
+	// one pass decides it, x is copied (the fit keeps it) and a Float64Array y is used in place.
+	if (wIn == null && nIn >= rules.minPoints) {
+		let ok = true;
+		let prev = -Infinity;
+		for (let i = 0; i < nIn; i++) {
+			const xi = xIn[i];
+			const yi = yIn[i];
+			// v − v is 0 exactly for finite numbers (NaN for NaN, ±Infinity and non-numbers).
+			if (!(xi > prev) || xi - xi !== 0 || yi - yi !== 0) {
+				ok = false;
+				break;
+			}
+			prev = xi;
+		}
+		if (ok && typeof xIn[0] === 'number' && typeof yIn[0] === 'number') {
+			const x = xIn instanceof Float64Array ? xIn.slice() : Float64Array.from(xIn);
+			const y = yIn instanceof Float64Array ? yIn : Float64Array.from(yIn);
+			return { x, y, w: null, rowsOf: (k: number) => [k + 1], notes };
+		}
+	}
 
 	// Non-finite values, listed by row.
 	const bad: number[] = [];

@@ -89,6 +89,8 @@ export interface CurveFit {
 		d2f: Float64Array;
 		outside: number;
 	};
+	/** values only (no derivatives), same search and extrapolation; `out` is reused when long enough */
+	evaluateValues(xs: ArrayLike<number>, out?: Float64Array): Float64Array;
 	/** the versioned fit-file body (exact round trip through fromJSON) */
 	toJSON(): unknown;
 	/** notes made while building (e.g. "x was unsorted; sorted") */
