@@ -13,7 +13,7 @@ import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { makeStarts } from '../../numerics/optimize/starts';
 import { getWithData } from '../datasetStore';
 import { insertJobs, queueName } from './boss';
-import { auditJob, runsJob, startsPerJob } from './jobs';
+import { auditJob, runsJob, startsPerJob, type StudyJob } from './jobs';
 import { packStarts } from './runner';
 import { DEFAULT_BUDGETS, MAX_RUNS, type StudyInput } from './schema';
 import type { StudySpec } from './spec';
@@ -44,9 +44,11 @@ export interface LaunchArgs {
 	input: StudyInput;
 	/** job queue (default KINKLESS_QUEUE or "studies") */
 	queue?: string;
+	/** false: store the study but return its jobs instead of queueing them (the demo seed runs them itself) */
+	enqueue?: boolean;
 }
 
-export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number }> {
+export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[] }> {
 	const { input } = args;
 	const queue = args.queue ?? queueName();
 	const dataset = await getWithData(db, input.datasetId);
@@ -76,7 +78,8 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 	}
 	const n = 1;
 	if (p.bounds && p.bounds.length !== n) reject('problem.bounds', `give one [lo, hi] per input: this curve has ${n} input (${ds.columns[inputIndex].name})`);
-	const bounds: [number, number][] = p.bounds ? p.bounds.map(([lo, hi]) => [lo, hi]) : [[dataLo, dataHi]];
+	const bounds: [number, number][] = p.bounds ? p.bounds.map(([lo, hi]) => [lo ?? dataLo, hi ?? dataHi]) : [[dataLo, dataHi]];
+	if (!(bounds[0][0] < bounds[0][1])) reject('problem.bounds.0', `bounds [${fmt(bounds[0][0])}, ${fmt(bounds[0][1])}]: the lower bound must be below the upper bound`);
 
 	// Every fit (objective and constraint outputs) is built now: bad options and too-small data are the caller's to fix.
 	const built: { fit: CurveFit; constraintFits: CurveFit[] }[] = input.fits.map((spec, i) => {
@@ -145,6 +148,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 	const verb = p.kind === 'solve' ? `solve ${input.output} = ${p.target}` : `${p.kind} ${input.output}`;
 	const name = input.name ?? `${ds.name}: ${verb}`;
 
+	let queued: StudyJob[] = [];
 	const id = await db.transaction(async (trx) => {
 		const [study] = await trx('studies')
 			.insert({
@@ -185,8 +189,9 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 				jobs.push(runsJob(queue, { kind: 'runs', studyId: study.id, fitId, from, to: Math.min(starts.length, from + chunk) }, maxMs * input.optimizers.length));
 			}
 		}
-		for (let i = 0; i < jobs.length; i += 1000) await insertJobs(trx, jobs.slice(i, i + 1000));
+		queued = jobs.map((j) => j.data as StudyJob);
+		if (args.enqueue !== false) for (let i = 0; i < jobs.length; i += 1000) await insertJobs(trx, jobs.slice(i, i + 1000));
 		return study.id as string;
 	});
-	return { id, status: 'queued', runs: runsTotal };
+	return { id, status: 'queued', runs: runsTotal, jobs: queued };
 }

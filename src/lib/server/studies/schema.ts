@@ -91,8 +91,11 @@ const problemSchema = z
 	.object({
 		kind: z.enum(['minimize', 'maximize', 'solve'], { error: 'problem.kind must be minimize, maximize or solve' }),
 		target: finite('target').optional(),
+		// null on either side: the data's edge
 		bounds: z
-			.array(z.tuple([finite('a lower bound'), finite('an upper bound')], { error: 'each bound is [lo, hi]' }), { error: 'bounds must be a list of [lo, hi], one per input' })
+			.array(z.tuple([finite('a lower bound').nullable(), finite('an upper bound').nullable()], { error: 'each bound is [lo, hi]' }), {
+				error: 'bounds must be a list of [lo, hi], one per input (null: the data’s edge)'
+			})
 			.min(1, { error: 'bounds need one [lo, hi] per input' })
 			.optional(),
 		constraints: z.array(constraintSchema, { error: 'constraints must be a list' }).max(MAX_CONSTRAINTS, { error: `at most ${MAX_CONSTRAINTS} constraints` }).optional()
@@ -101,7 +104,7 @@ const problemSchema = z
 		if (p.kind === 'solve' && p.target === undefined) ctx.addIssue({ code: 'custom', path: ['target'], message: 'a solve problem needs a target: the value the fitted output must reach' });
 		if (p.kind !== 'solve' && p.target !== undefined) ctx.addIssue({ code: 'custom', path: ['target'], message: `target is only for solve problems, not ${p.kind}` });
 		p.bounds?.forEach(([lo, hi], i) => {
-			if (!(lo < hi)) ctx.addIssue({ code: 'custom', path: ['bounds', i], message: `bounds [${lo}, ${hi}]: the lower bound must be below the upper bound` });
+			if (lo !== null && hi !== null && !(lo < hi)) ctx.addIssue({ code: 'custom', path: ['bounds', i], message: `bounds [${lo}, ${hi}]: the lower bound must be below the upper bound` });
 		});
 	});
 
@@ -199,7 +202,7 @@ export function studyFromForm(raw: Record<string, string>): unknown {
 	if (raw.kind === 'solve') problem.target = num(raw.target);
 	const lo = num(raw.boundLo);
 	const hi = num(raw.boundHi);
-	if (lo !== undefined || hi !== undefined) problem.bounds = [[lo, hi]];
+	if (lo !== undefined || hi !== undefined) problem.bounds = [[lo ?? null, hi ?? null]];
 	const constraints = [0, 1, 2]
 		.filter((i) => (raw[`c${i}.output`] ?? '').trim() !== '')
 		.map((i) => ({ output: raw[`c${i}.output`], op: raw[`c${i}.op`], value: num(raw[`c${i}.value`]) ?? raw[`c${i}.value`] }));
