@@ -71,7 +71,14 @@ export function invalidPoint(x: number): FitError {
 	return new FitError('invalid-point', `cannot evaluate at x = ${x}`);
 }
 
-const EMPTY_INDEX = new Int32Array(1);
+/** The smallest double above v (v finite). */
+function nextUp(v: number): number {
+	if (v === 0) return Number.MIN_VALUE;
+	const buf = new Float64Array([v]);
+	const bits = new BigInt64Array(buf.buffer);
+	bits[0] += v > 0 ? 1n : -1n;
+	return buf[0];
+}
 
 export class PiecewisePolynomial implements CurveFit {
 	readonly method: CurveMethod;
@@ -90,6 +97,8 @@ export class PiecewisePolynomial implements CurveFit {
 	private readonly d0: number;
 	private readonly fN: number;
 	private readonly dN: number;
+	// the double just above the domain's end: the last piece's exclusive right end in the kernels
+	private readonly rightEdge: number;
 
 	constructor(init: PiecewiseInit) {
 		const m = init.knots.length - 1;
@@ -110,6 +119,7 @@ export class PiecewisePolynomial implements CurveFit {
 		this.stats = Object.freeze({ ...(init.stats ?? {}) });
 		const left = this.evaluatePiece(0, this.domain[0]);
 		const right = this.evaluatePiece(m - 1, this.domain[1]);
+		this.rightEdge = nextUp(this.domain[1]);
 		this.f0 = left.f;
 		this.d0 = left.df;
 		this.fN = right.f;
@@ -194,98 +204,223 @@ export class PiecewisePolynomial implements CurveFit {
 	}
 
 	/**
-	 * The batch kernel. Each point first tries the piece of the previous point and
-	 * the one after it — a sorted batch therefore walks the knots like a cursor,
-	 * O(points + knots) in all — and otherwise locates its piece through the
-	 * bucket index (or by bisection until the index pays for itself).
+	 * The batch kernels. Each point first tests the piece of the previous point
+	 * (its left and right ends and, for cubics, its four coefficients are held in
+	 * locals), so a sorted batch runs through the knots like a cursor,
+	 * O(points + knots) in all. Any other point goes to `seek`: the next piece,
+	 * else the bucket index, else bisection. The right end of the last piece is
+	 * the double just above the domain's end, so every point that passes the
+	 * two comparisons is inside the data; the rest (outside, NaN) take the
+	 * extrapolation rule. One loop per degree and output kind keeps the
+	 * common loops free of branches that do not concern them.
 	 */
 	private batch(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array, full: boolean): number {
+		this.seekMisses = 0;
+		if (this.degree === 3) return full ? this.batch3(xs, f, df, d2f) : this.values3(xs, f);
+		if (this.degree === 1) return full ? this.batch1(xs, f, df, d2f) : this.values1(xs, f);
+		return this.batch2(xs, f, df, d2f, full);
+	}
+
+	private outsideInto(x: number, p: number, f: Float64Array, df: Float64Array | null, d2f: Float64Array | null): void {
+		const j = this.outsideJet(x);
+		f[p] = j.f;
+		if (df) df[p] = j.df;
+		if (d2f) d2f[p] = j.d2f;
+	}
+
+	/** Piece index for x inside the domain, when it is not piece i. */
+	private seek(x: number, i: number): number {
+		const k = this.knots;
+		const m = this.pieces;
+		if (x >= k[i + 1] && (i + 2 >= m || x < k[i + 2])) return i + 1;
+		if (this.index === null && ++this.seekMisses <= 32) return this.findPiece(x);
+		const ix = this.index ?? this.buildIndex();
+		let b = ((x - this.domain[0]) * ix.inv) | 0;
+		if (b >= ix.nb) b = ix.nb - 1;
+		let a = ix.start[b];
+		let e = ix.start[b + 1] + 1;
+		if (e > m) e = m;
+		while (e - a > 1) {
+			const mid = (a + e) >>> 1;
+			if (x < k[mid]) e = mid;
+			else a = mid;
+		}
+		// Bucket edges are rounded; a point on the wrong side of one falls back to bisection.
+		if (x < k[a] || (a < m - 1 && x >= k[a + 1])) return this.findPiece(x);
+		return a;
+	}
+
+	private seekMisses = 0;
+
+	/** right end used by the kernels: the next knot, or just above the domain for the last piece */
+	private rightOf(i: number): number {
+		return i < this.pieces - 1 ? this.knots[i + 1] : this.rightEdge;
+	}
+
+	private batch3(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array): number {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
-		const m = this.pieces;
-		const last = m - 1;
-		const lo = this.domain[0];
-		const hi = this.domain[1];
-		const deg = this.degree;
 		let outside = 0;
-		let misses = 0;
-		// The bucket index, in locals (see buildIndex); empty until it pays for itself.
-		let bStart = this.index ? this.index.start : EMPTY_INDEX;
-		let bInv = this.index ? this.index.inv : 0;
-		let bLast = this.index ? this.index.nb - 1 : -1;
 		let i = 0;
 		let left = k[0];
-		let right = m > 1 ? k[1] : Infinity; // the last piece is open to the right (x ≤ hi is checked first)
+		let right = this.rightOf(0);
+		let c0 = c[0];
+		let c1 = c[1];
+		let c2 = c[2];
+		let c3 = c[3];
 		for (let p = 0; p < n; p++) {
 			const x = xs[p];
-			if (!(x >= lo && x <= hi)) {
-				const j = this.outsideJet(x);
-				f[p] = j.f;
-				if (full) {
-					df[p] = j.df;
-					d2f[p] = j.d2f;
+			if (!(x >= left && x < right)) {
+				if (!(x >= this.domain[0] && x <= this.domain[1])) {
+					this.outsideInto(x, p, f, df, d2f);
+					outside++;
+					continue;
 				}
-				outside++;
-				continue;
-			}
-			if (x < left || x >= right) {
-				if (x >= right && (i + 1 === last || x < k[i + 2])) {
-					i++;
-				} else if (bLast >= 0 || ++misses > 32) {
-					if (bLast < 0) {
-						const ix = this.buildIndex();
-						bStart = ix.start;
-						bInv = ix.inv;
-						bLast = ix.nb - 1;
-					}
-					// Bucket of x, then bisection between the pieces at its two edges.
-					let b = ((x - lo) * bInv) | 0;
-					if (b > bLast) b = bLast;
-					let a = bStart[b];
-					let e = bStart[b + 1] + 1;
-					if (e > m) e = m;
-					while (e - a > 1) {
-						const mid = (a + e) >>> 1;
-						if (x < k[mid]) e = mid;
-						else a = mid;
-					}
-					// Bucket edges are rounded; a point on the wrong side of one falls back to bisection.
-					i = x < k[a] || (a < last && x >= k[a + 1]) ? this.findPiece(x) : a;
-				} else {
-					i = this.findPiece(x);
-				}
+				i = this.seek(x, i);
 				left = k[i];
-				right = i < last ? k[i + 1] : Infinity;
+				right = this.rightOf(i);
+				const o = i << 2;
+				c0 = c[o];
+				c1 = c[o + 1];
+				c2 = c[o + 2];
+				c3 = c[o + 3];
 			}
 			const s = x - left;
-			if (deg === 3) {
+			f[p] = c0 + s * (c1 + s * (c2 + s * c3));
+			df[p] = c1 + s * (2 * c2 + 3 * c3 * s);
+			d2f[p] = 2 * c2 + 6 * c3 * s;
+		}
+		return outside;
+	}
+
+	private values3(xs: ArrayLike<number>, f: Float64Array): number {
+		const n = xs.length;
+		const k = this.knots;
+		const c = this.coefficients;
+		let outside = 0;
+		let i = 0;
+		let left = k[0];
+		let right = this.rightOf(0);
+		let c0 = c[0];
+		let c1 = c[1];
+		let c2 = c[2];
+		let c3 = c[3];
+		for (let p = 0; p < n; p++) {
+			const x = xs[p];
+			if (!(x >= left && x < right)) {
+				if (!(x >= this.domain[0] && x <= this.domain[1])) {
+					this.outsideInto(x, p, f, null, null);
+					outside++;
+					continue;
+				}
+				i = this.seek(x, i);
+				left = k[i];
+				right = this.rightOf(i);
 				const o = i << 2;
-				const c1 = c[o + 1];
-				const c2 = c[o + 2];
-				const c3 = c[o + 3];
-				f[p] = c[o] + s * (c1 + s * (c2 + s * c3));
-				if (full) {
-					df[p] = c1 + s * (2 * c2 + 3 * c3 * s);
-					d2f[p] = 2 * c2 + 6 * c3 * s;
+				c0 = c[o];
+				c1 = c[o + 1];
+				c2 = c[o + 2];
+				c3 = c[o + 3];
+			}
+			const s = x - left;
+			f[p] = c0 + s * (c1 + s * (c2 + s * c3));
+		}
+		return outside;
+	}
+
+	private batch1(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array): number {
+		const n = xs.length;
+		const k = this.knots;
+		const c = this.coefficients;
+		let outside = 0;
+		let i = 0;
+		let left = k[0];
+		let right = this.rightOf(0);
+		let c0 = c[0];
+		let c1 = c[1];
+		for (let p = 0; p < n; p++) {
+			const x = xs[p];
+			if (!(x >= left && x < right)) {
+				if (!(x >= this.domain[0] && x <= this.domain[1])) {
+					this.outsideInto(x, p, f, df, d2f);
+					outside++;
+					continue;
 				}
-			} else if (deg === 1) {
-				const o = i << 1;
-				const c1 = c[o + 1];
-				f[p] = c[o] + s * c1;
-				if (full) {
-					df[p] = c1;
-					d2f[p] = 0;
+				i = this.seek(x, i);
+				left = k[i];
+				right = this.rightOf(i);
+				c0 = c[i << 1];
+				c1 = c[(i << 1) + 1];
+			}
+			f[p] = c0 + (x - left) * c1;
+			df[p] = c1;
+			d2f[p] = 0;
+		}
+		return outside;
+	}
+
+	private values1(xs: ArrayLike<number>, f: Float64Array): number {
+		const n = xs.length;
+		const k = this.knots;
+		const c = this.coefficients;
+		let outside = 0;
+		let i = 0;
+		let left = k[0];
+		let right = this.rightOf(0);
+		let c0 = c[0];
+		let c1 = c[1];
+		for (let p = 0; p < n; p++) {
+			const x = xs[p];
+			if (!(x >= left && x < right)) {
+				if (!(x >= this.domain[0] && x <= this.domain[1])) {
+					this.outsideInto(x, p, f, null, null);
+					outside++;
+					continue;
 				}
-			} else {
+				i = this.seek(x, i);
+				left = k[i];
+				right = this.rightOf(i);
+				c0 = c[i << 1];
+				c1 = c[(i << 1) + 1];
+			}
+			f[p] = c0 + (x - left) * c1;
+		}
+		return outside;
+	}
+
+	private batch2(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array, full: boolean): number {
+		const n = xs.length;
+		const k = this.knots;
+		const c = this.coefficients;
+		let outside = 0;
+		let i = 0;
+		let left = k[0];
+		let right = this.rightOf(0);
+		let c0 = c[0];
+		let c1 = c[1];
+		let c2 = c[2];
+		for (let p = 0; p < n; p++) {
+			const x = xs[p];
+			if (!(x >= left && x < right)) {
+				if (!(x >= this.domain[0] && x <= this.domain[1])) {
+					this.outsideInto(x, p, f, full ? df : null, full ? d2f : null);
+					outside++;
+					continue;
+				}
+				i = this.seek(x, i);
+				left = k[i];
+				right = this.rightOf(i);
 				const o = 3 * i;
-				const c1 = c[o + 1];
-				const c2 = c[o + 2];
-				f[p] = c[o] + s * (c1 + s * c2);
-				if (full) {
-					df[p] = c1 + 2 * c2 * s;
-					d2f[p] = 2 * c2;
-				}
+				c0 = c[o];
+				c1 = c[o + 1];
+				c2 = c[o + 2];
+			}
+			const s = x - left;
+			f[p] = c0 + s * (c1 + s * c2);
+			if (full) {
+				df[p] = c1 + 2 * c2 * s;
+				d2f[p] = 2 * c2;
 			}
 		}
 		return outside;

@@ -18,7 +18,7 @@ export function akimaModified(x: ArrayLike<number>, y: ArrayLike<number>, option
 		minReason: 'the end secants are extended from the two nearest'
 	});
 	const buf = new Float64Array(4 * d.x.length);
-	akimaSlopesInto(d.x, d.y, true, buf, 4, 1);
+	akimaSlopesInto(d.x, d.y, true, buf, 4, 1, 3); // slopes in slot 1, secants in slot 3
 	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'akima-modified', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

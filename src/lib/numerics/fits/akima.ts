@@ -15,7 +15,7 @@ export function akima(x: ArrayLike<number>, y: ArrayLike<number>, options?: Curv
 	const opts = resolveOptions(options, 'akima');
 	const d = prepareData(x, y, opts, { label: 'akima', minPoints: 3, minReason: 'the end secants are extended from the two nearest' });
 	const buf = new Float64Array(4 * d.x.length);
-	akimaSlopesInto(d.x, d.y, false, buf, 4, 1);
+	akimaSlopesInto(d.x, d.y, false, buf, 4, 1, 3); // slopes in slot 1, secants in slot 3
 	const c = hermiteInPlace(d.x, d.y, buf);
 	return new PiecewisePolynomial({ method: 'akima', continuity: 'C1', options: opts, knots: d.x, degree: 3, coefficients: c, notes: d.notes });
 }

@@ -24,31 +24,51 @@
 
 /** Akima (or modified Akima) knot slopes as a new array (see akimaSlopesInto). */
 export function akimaSlopes(x: Float64Array, y: ArrayLike<number>, modified: boolean): Float64Array {
-	const t = new Float64Array(x.length);
-	akimaSlopesInto(x, y, modified, t, 1, 0);
+	const n = x.length;
+	const buf = new Float64Array(2 * n);
+	akimaSlopesInto(x, y, modified, buf, 2, 0, 1);
+	const t = new Float64Array(n);
+	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
 	return t;
 }
 
 /**
- * Writes t_i to out[offset + stride·i]. The secants are carried along in a
- * window of four (m_{i−2} … m_{i+1}); the two extended secants at each end
- * are computed once. Original Akima makes two passes because its tie
+ * Writes t_i to buf[offset + stride·i], using buf[scratch + stride·k] to hold
+ * the secant m_k (k = 0 … n − 2): the cubic builders pass their coefficient
+ * buffer (slopes in slot 1, secants in slot 3 of each piece), so the slopes
+ * cost no memory of their own. The two extended secants at each end are kept
+ * apart. Original Akima makes two passes over the secants because its tie
  * threshold is relative to the largest weight sum over all knots.
  */
-export function akimaSlopesInto(x: Float64Array, y: ArrayLike<number>, modified: boolean, out: Float64Array, stride: number, offset: number): void {
+export function akimaSlopesInto(
+	x: Float64Array,
+	y: ArrayLike<number>,
+	modified: boolean,
+	buf: Float64Array,
+	stride: number,
+	offset: number,
+	scratch: number
+): void {
 	const n = x.length;
-	const sec = (k: number) => (y[k + 1] - y[k]) / (x[k + 1] - x[k]);
+	let xp = x[0];
+	let yp = y[0];
+	for (let k = 0, o = scratch; k < n - 1; k++, o += stride) {
+		const xn = x[k + 1];
+		const yn = y[k + 1];
+		buf[o] = (yn - yp) / (xn - xp);
+		xp = xn;
+		yp = yn;
+	}
+	const sec = (k: number) => buf[scratch + stride * k];
 	// Extended secants m_{−2}, m_{−1} and m_{n−1}, m_n.
 	const m0 = sec(0);
-	const m1 = sec(1);
-	const mm1 = 2 * m0 - m1;
+	const mm1 = 2 * m0 - sec(1);
 	const mm2 = 2 * mm1 - m0;
 	const mLast = sec(n - 2);
-	const mLast1 = sec(n - 3);
-	const mp1 = 2 * mLast - mLast1;
+	const mp1 = 2 * mLast - sec(n - 3);
 	const mp2 = 2 * mp1 - mLast;
-	// Secant m_k for k = −2 … n (only at the window's leading edge).
-	const secant = (k: number) => (k <= -2 ? mm2 : k === -1 ? mm1 : k <= n - 2 ? sec(k) : k === n - 1 ? mp1 : mp2);
+	// m_{i+1} at the window's leading edge, for i = 0 … n − 1.
+	const lead = (i: number) => (i + 1 <= n - 2 ? buf[scratch + stride * (i + 1)] : i + 1 === n - 1 ? mp1 : mp2);
 
 	let cut = 0;
 	if (!modified) {
@@ -57,7 +77,7 @@ export function akimaSlopesInto(x: Float64Array, y: ArrayLike<number>, modified:
 		let b = mm1;
 		let c = m0;
 		for (let i = 0; i < n; i++) {
-			const d = secant(i + 1);
+			const d = lead(i);
 			const f12 = Math.abs(d - c) + Math.abs(b - a);
 			if (f12 > big) big = f12;
 			a = b;
@@ -70,7 +90,7 @@ export function akimaSlopesInto(x: Float64Array, y: ArrayLike<number>, modified:
 	let b = mm1; // m_{i−1}
 	let c = m0; // m_i
 	for (let i = 0; i < n; i++) {
-		const d = secant(i + 1); // m_{i+1}
+		const d = lead(i); // m_{i+1}
 		let t: number;
 		if (modified) {
 			const w1 = Math.abs(d - c) + 0.5 * Math.abs(d + c);
@@ -83,7 +103,7 @@ export function akimaSlopesInto(x: Float64Array, y: ArrayLike<number>, modified:
 			const f12 = f1 + f2;
 			t = f12 > cut ? (f1 * b + f2 * c) / f12 : 0.5 * (d + a);
 		}
-		out[offset + stride * i] = t;
+		buf[offset + stride * i] = t;
 		a = b;
 		b = c;
 		c = d;
