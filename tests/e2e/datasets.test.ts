@@ -1,5 +1,6 @@
 // Upload, check, fix a role, save and preview fits, in Debian's Chromium against the built app.
 import { randomBytes } from 'node:crypto';
+import ExcelJS from 'exceljs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
 import { launch } from './browser';
@@ -160,6 +161,40 @@ describe('datasets in the browser', () => {
 		await page.getByTestId('data-plot').locator('svg image').first().waitFor();
 		await expect(page.getByText('The quick preview covers curves (one input)').count()).resolves.toBe(1);
 		await page.screenshot({ path: '/tmp/kinkless-grid-page.png', fullPage: true });
+		await page.close();
+	});
+
+	it('a TSV file dropped on the page is checked at once; an XLSX with several sheets offers the others', async () => {
+		const user = await newUser(`e2e-drop-${tag}`);
+		const ws = await newWorkspace(user.client, `Drop ${tag}`);
+		const page = await context.newPage();
+		await signIn(page, user.email, user.password);
+		await page.goto(`/w/${ws.slug}/datasets/new`);
+		const tsv = 'flow [m³/s]\tpressure rise [Pa]\n0\t410\n0.1\t385\n0.2\t330\n0.3\t250\n';
+		const dropped = await page.evaluateHandle((text) => {
+			const d = new DataTransfer();
+			d.items.add(new File([text], 'fan.tsv', { type: 'text/tab-separated-values' }));
+			return d;
+		}, tsv);
+		await page.getByRole('group', { name: 'Drop a file here' }).dispatchEvent('drop', { dataTransfer: dropped });
+		await page.getByTestId('report-status').filter({ hasText: 'Ready to save: 4 rows, 1 input (flow), 1 output (pressure rise)' }).waitFor();
+		await expect(page.getByTestId('checked-source').textContent()).resolves.toContain('fan.tsv');
+		await page.getByRole('button', { name: 'Save dataset' }).click();
+		await page.getByRole('heading', { level: 1, name: 'fan' }).waitFor();
+
+		const wb = new ExcelJS.Workbook();
+		const a = wb.addWorksheet('Sweep A');
+		[['J [-]', 'eta [-]'], [0.1, 0.3], [0.2, 0.5], [0.3, 0.62]].forEach((r) => a.addRow(r));
+		const b = wb.addWorksheet('Sweep B');
+		[['J [-]', 'eta [-]'], [0.1, 0.2], [0.2, 0.4]].forEach((r) => b.addRow(r));
+		const xlsx = Buffer.from(await wb.xlsx.writeBuffer());
+		await page.goto(`/w/${ws.slug}/datasets/new`);
+		await page.getByLabel('Choose a file').setInputFiles({ name: 'sweeps.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: xlsx });
+		await page.getByTestId('report-status').filter({ hasText: 'Ready to save: 3 rows' }).waitFor();
+		await expect(page.getByTestId('report-notes').textContent()).resolves.toContain('used sheet "Sweep A", the first sheet with data');
+		await page.getByLabel('Sheet').selectOption('Sweep B');
+		await page.getByTestId('report-status').filter({ hasText: 'Ready to save: 2 rows' }).waitFor();
+		await expect(page.getByTestId('checked-source').textContent()).resolves.toContain('sheet "Sweep B"');
 		await page.close();
 	});
 });
