@@ -90,7 +90,9 @@ try {
 	const threads = Math.max(1, defaultThreads());
 	const t0 = performance.now();
 	const workers = await StudyWorkers.start({ databaseUrl, db, threads, queue: 'studies', root, log: () => {} });
-	console.log(`study bench: ${threads} worker thread${threads === 1 ? '' : 's'} ready in ${(performance.now() - t0).toFixed(0)} ms (${os.cpus().length} cores)`);
+	console.log(
+		`study bench: ${threads} worker thread${threads === 1 ? '' : 's'} ready in ${(performance.now() - t0).toFixed(0)} ms (${os.cpus().length} cores; load average ${os.loadavg()[0].toFixed(1)} — other work on the machine slows this down)`
+	);
 
 	const fits = ['linear', 'cubic-natural', 'cubic-not-a-knot', 'akima', 'akima-modified', 'pchip', 'local-quadratic', 'local-cubic', 'polynomial-global', 'polynomial-least-squares', 'smoothing-spline', 'softened-linear'].map((method) =>
 		method === 'polynomial-least-squares' ? { method, options: { degree: 5 } } : { method }
@@ -110,6 +112,7 @@ try {
 		const t1 = performance.now();
 		const { id, runs } = await launchStudy(db, { workspaceId: ws.id, userId: 'bench-user', origin: 'http://bench.invalid', input, queue: 'studies' });
 		workers.wake();
+		const launchMs = performance.now() - t1;
 
 		for (;;) {
 			const s = await db('studies').where({ id }).first('status', 'error');
@@ -122,7 +125,12 @@ try {
 		if (Number(stored) !== runs) throw new Error(`${stored} runs stored, expected ${runs}`);
 		results.push({ label, runs, ms });
 		lastId = id;
-		console.log(`study bench: ${label}: ${runs} runs launch→done in ${ms.toFixed(0)} ms = ${((runs / ms) * 1000).toFixed(0)} runs/s`);
+		const audits = await db('study_fits').where({ study_id: id }).max('audited_at as last').first();
+		const started = await db('studies').where({ id }).first('created_at', 'finished_at');
+		const auditsMs = new Date(audits!.last).getTime() - new Date(started.created_at).getTime();
+		console.log(
+			`study bench: ${label}: ${runs} runs launch→done in ${ms.toFixed(0)} ms = ${((runs / ms) * 1000).toFixed(0)} runs/s (launch request ${launchMs.toFixed(0)} ms; last fit audit stored after ${auditsMs} ms)`
+		);
 	}
 
 	// the page's data for the last study, built and serialised as SvelteKit does (devalue)

@@ -284,7 +284,7 @@ const safe = <T>(fn: () => T): T | { error: string } => {
 async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audit' }>): Promise<JobResult> {
 	const status = await markRunning(ctx.db, job.studyId);
 	if (!isActive(status)) return { status: status ?? 'gone', stored: 0, skipped: 0 };
-	const fitRow = await ctx.db('study_fits').where({ id: job.fitId, study_id: job.studyId }).first('audited_at');
+	const fitRow = await ctx.db('study_fits').where({ id: job.fitId, study_id: job.studyId }).first('audited_at', 'position');
 	if (!fitRow) return { status: 'gone', stored: 0, skipped: 0 };
 	if (fitRow.audited_at) return { status, stored: 0, skipped: 1 };
 	const p = await prepare(ctx, job.studyId, job.fitId);
@@ -295,35 +295,48 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 	const xi = dataset.columns.findIndex((c) => c.role === 'input');
 	const yi = dataset.columns.findIndex((c) => c.name === study.output);
 	const fit = p.fit;
+	const fitPosition = fitRow.position as number;
 
-	const smoothness = safe(() => {
-		const a = auditSmoothness(fit, { worst: 5 });
-		return {
-			declared: a.declared,
-			measured: a.measured,
-			maxJumpF: a.maxJumpF,
-			maxJumpD1: a.maxJumpD1,
-			maxJumpD2: a.maxJumpD2,
-			knotsChecked: a.knotsChecked,
-			worst: a.worst.map((k) => ({ x: k.x, jumpF: k.jumpF, jumpD1: k.jumpD1, jumpD2: k.jumpD2 }))
-		};
-	});
-	const fidelity = safe(() => {
-		const a = auditFidelity(fit, dataset.data[xi], dataset.data[yi], { looMaxPoints: 100 });
-		return {
-			looRmse: a.looRmse,
-			looMax: a.looMax,
-			looMaxAt: a.looMaxAt,
-			looMethod: a.looMethod,
-			looPoints: a.looPoints,
-			overshoot: a.overshoot,
-			overshootRelative: a.overshootRelative,
-			dataMonotone: a.dataMonotone,
-			monotoneKept: a.monotoneKept,
-			spuriousExtrema: a.spuriousExtrema,
-			notes: a.notes
-		};
-	});
+	// Smoothness and fidelity depend only on the data and the fit: reuse them from an earlier study of the same fit.
+	const cached = await ctx.db('study_fits as f')
+		.join('studies as s', 's.id', 'f.study_id')
+		.where({ 's.dataset_id': study.dataset_id, 's.output': study.output, 'f.method': fit.method })
+		.whereRaw('f.options = ?::jsonb', [JSON.stringify(p.spec.fits[fitPosition]?.options ?? {})])
+		.whereNotNull('f.audited_at')
+		.whereNot('f.id', job.fitId)
+		.first('f.smoothness', 'f.fidelity');
+	const smoothness =
+		cached?.smoothness ??
+		safe(() => {
+			const a = auditSmoothness(fit, { worst: 5 });
+			return {
+				declared: a.declared,
+				measured: a.measured,
+				maxJumpF: a.maxJumpF,
+				maxJumpD1: a.maxJumpD1,
+				maxJumpD2: a.maxJumpD2,
+				knotsChecked: a.knotsChecked,
+				worst: a.worst.map((k) => ({ x: k.x, jumpF: k.jumpF, jumpD1: k.jumpD1, jumpD2: k.jumpD2 }))
+			};
+		});
+	const fidelity =
+		cached?.fidelity ??
+		safe(() => {
+			const a = auditFidelity(fit, dataset.data[xi], dataset.data[yi], { looMaxPoints: 100 });
+			return {
+				looRmse: a.looRmse,
+				looMax: a.looMax,
+				looMaxAt: a.looMaxAt,
+				looMethod: a.looMethod,
+				looPoints: a.looPoints,
+				overshoot: a.overshoot,
+				overshootRelative: a.overshootRelative,
+				dataMonotone: a.dataMonotone,
+				monotoneKept: a.monotoneKept,
+				spuriousExtrema: a.spuriousExtrema,
+				notes: a.notes
+			};
+		});
 	// about 20 samples per data interval (at least 4,001); bisection on f′ then makes the optimum exact
 	const reference = safe(() => referenceOptimum(p.problem, p.spec.problem.bounds, Math.min(20_001, Math.max(4001, 20 * dataset.rowCount + 1))));
 	const samples = curveSamples(fit, p.spec.problem.bounds[0]);

@@ -9,9 +9,7 @@ import { parentPort, threadId, workerData } from 'node:worker_threads';
 import knex from 'knex';
 import pg from 'pg';
 import config from '../../../../knexfile';
-import { fitCurve } from '../../numerics/fits/fitCurve';
-import { optimize } from '../../numerics/optimize/optimize';
-import { curveProblem } from './problem';
+import { warmUp } from './warmUp';
 import { runStudyJob, type RunnerContext } from './runner';
 import type { StudyJob } from './jobs';
 
@@ -20,21 +18,6 @@ pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
 const data = (workerData ?? {}) as { databaseUrl?: string };
 const db = knex({ ...config, connection: data.databaseUrl ?? config.connection, pool: { min: 0, max: 2 } });
 const ctx: RunnerContext = { db, worker: `${os.hostname()}/${process.pid}/t${threadId}`, cache: new Map() };
-
-/** A few runs on a small curve so the optimizers' code is compiled before the first real job. */
-function warmUp(): void {
-	const x = [0, 1, 2, 3, 4, 5, 6, 7];
-	const y = x.map((v) => Math.sin(v / 2.5));
-	const t0 = Date.now();
-	for (const method of ['linear', 'pchip', 'cubic-natural'] as const) {
-		const fit = fitCurve(method, x, y);
-		const problem = curveProblem(fit, [], { kind: 'maximize', bounds: [[0, 7]], constraints: [] });
-		for (const o of ['sqp', 'bfgs', 'conjugate-gradient', 'nelder-mead', 'steepest-descent', 'newton'] as const) {
-			for (const s of [0.5, 3.5, 6.5]) optimize(problem, o, { maxMilliseconds: 50 }, [s]);
-			if (Date.now() - t0 > 1500) return;
-		}
-	}
-}
 
 parentPort!.on('message', async ({ job, attempt }: { job: StudyJob; attempt: number }) => {
 	try {
@@ -46,7 +29,7 @@ parentPort!.on('message', async ({ job, attempt }: { job: StudyJob; attempt: num
 });
 
 try {
-	warmUp();
+	warmUp(true);
 } catch {
 	// warming is an optimisation only
 }

@@ -67,7 +67,7 @@ export interface StudyPage {
 	};
 	fits: store.StudyFit[];
 	scorecard: ScorecardRow[];
-	runs: store.RunRow[] | null;
+	runs: store.RunColumns | null;
 	data: { x: number[]; y: number[] } | null;
 }
 
@@ -78,7 +78,7 @@ export async function studyPage(db: Db, study: Study): Promise<StudyPage> {
 	const [fits, dataset] = await Promise.all([store.fits(db, study.id, true), getWithData(db, study.datasetId)]);
 	const [card, runs] = await Promise.all([
 		scorecard(db, study, fits),
-		finished && study.progress.done <= PAGE_RUNS ? store.runs(db, study) : Promise.resolve(null)
+		finished && study.progress.done <= PAGE_RUNS ? store.runColumns(db, study, fits.map((f) => f.id)) : Promise.resolve(null)
 	]);
 	let data: StudyPage['data'] = null;
 	if (dataset) {

@@ -25,6 +25,7 @@ import { failedQueue, insertJobs, mailQueue, startBoss } from './boss';
 import { mailJob, runsExpireSeconds, type MailJob, type StudyJob } from './jobs';
 import type { JobResult } from './runner';
 import { ThreadPool } from './threadPool';
+import { warmUp } from './warmUp';
 
 export interface WorkerOptions {
 	databaseUrl: string;
@@ -61,6 +62,14 @@ export class StudyWorkers {
 	static async start(opts: WorkerOptions): Promise<StudyWorkers> {
 		const boss = await startBoss(opts.databaseUrl, opts.queue);
 		const w = new StudyWorkers(boss, opts);
+		// this thread builds every fit of a study it launches; compile that code now (well under a second)
+		setTimeout(() => {
+			try {
+				warmUp(false, 1000);
+			} catch {
+				// an optimisation only
+			}
+		}, 0);
 		if (w.pool) await w.pool.ready();
 		for (let i = 0; i < opts.threads; i++) w.loops.push(w.studyLoop());
 		w.loops.push(w.mailLoop(), w.failedLoop());
