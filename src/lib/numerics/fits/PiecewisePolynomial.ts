@@ -71,6 +71,40 @@ export function invalidPoint(x: number): FitError {
 	return new FitError('invalid-point', `cannot evaluate at x = ${x}`);
 }
 
+interface BucketIndex {
+	start: Int32Array;
+	inv: number;
+	last: number;
+	lo: number;
+}
+
+/**
+ * Piece of x (inside the domain) through the bucket index: the bucket of x,
+ * then bisection between the pieces at its two edges. Bucket edges are
+ * rounded, so a point on the wrong side of one falls back to full bisection.
+ */
+function locateIn(ix: BucketIndex, k: Float64Array, m: number, x: number): number {
+	let b = ((x - ix.lo) * ix.inv) | 0;
+	if (b > ix.last) b = ix.last;
+	let a = ix.start[b];
+	let e = ix.start[b + 1] + 1;
+	if (e > m) e = m;
+	while (e - a > 1) {
+		const mid = (a + e) >>> 1;
+		if (x < k[mid]) e = mid;
+		else a = mid;
+	}
+	if (x >= k[a] && (a === m - 1 || x < k[a + 1])) return a;
+	let lo = 0;
+	let hi = m;
+	while (hi - lo > 1) {
+		const mid = (lo + hi) >>> 1;
+		if (x < k[mid]) hi = mid;
+		else lo = mid;
+	}
+	return lo;
+}
+
 /** The smallest double above v (v finite). */
 function nextUp(v: number): number {
 	if (v === 0) return Number.MIN_VALUE;
@@ -228,26 +262,10 @@ export class PiecewisePolynomial implements CurveFit {
 		if (d2f) d2f[p] = j.d2f;
 	}
 
-	/** Piece index for x inside the domain, when it is not piece i. */
-	private seek(x: number, i: number): number {
-		const k = this.knots;
-		const m = this.pieces;
-		if (x >= k[i + 1] && (i + 2 >= m || x < k[i + 2])) return i + 1;
-		if (this.index === null && ++this.seekMisses <= 32) return this.findPiece(x);
-		const ix = this.index ?? this.buildIndex();
-		let b = ((x - this.domain[0]) * ix.inv) | 0;
-		if (b >= ix.nb) b = ix.nb - 1;
-		let a = ix.start[b];
-		let e = ix.start[b + 1] + 1;
-		if (e > m) e = m;
-		while (e - a > 1) {
-			const mid = (a + e) >>> 1;
-			if (x < k[mid]) e = mid;
-			else a = mid;
-		}
-		// Bucket edges are rounded; a point on the wrong side of one falls back to bisection.
-		if (x < k[a] || (a < m - 1 && x >= k[a + 1])) return this.findPiece(x);
-		return a;
+	/** The bucket index once it pays for itself: after 32 bisections in one batch. */
+	private indexFor(): BucketIndex | null {
+		if (this.index) return this.index;
+		return ++this.seekMisses > 32 ? this.buildIndex() : null;
 	}
 
 	private seekMisses = 0;
@@ -261,6 +279,8 @@ export class PiecewisePolynomial implements CurveFit {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
+		const m = this.pieces;
+		let ix = this.index;
 		let outside = 0;
 		let i = 0;
 		let left = k[0];
@@ -277,7 +297,11 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				i = this.seek(x, i);
+				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				else {
+					if (ix === null) ix = this.indexFor();
+					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
+				}
 				left = k[i];
 				right = this.rightOf(i);
 				const o = i << 2;
@@ -298,6 +322,8 @@ export class PiecewisePolynomial implements CurveFit {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
+		const m = this.pieces;
+		let ix = this.index;
 		let outside = 0;
 		let i = 0;
 		let left = k[0];
@@ -314,7 +340,11 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				i = this.seek(x, i);
+				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				else {
+					if (ix === null) ix = this.indexFor();
+					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
+				}
 				left = k[i];
 				right = this.rightOf(i);
 				const o = i << 2;
@@ -333,6 +363,8 @@ export class PiecewisePolynomial implements CurveFit {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
+		const m = this.pieces;
+		let ix = this.index;
 		let outside = 0;
 		let i = 0;
 		let left = k[0];
@@ -347,7 +379,11 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				i = this.seek(x, i);
+				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				else {
+					if (ix === null) ix = this.indexFor();
+					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
+				}
 				left = k[i];
 				right = this.rightOf(i);
 				c0 = c[i << 1];
@@ -364,6 +400,8 @@ export class PiecewisePolynomial implements CurveFit {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
+		const m = this.pieces;
+		let ix = this.index;
 		let outside = 0;
 		let i = 0;
 		let left = k[0];
@@ -378,7 +416,11 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				i = this.seek(x, i);
+				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				else {
+					if (ix === null) ix = this.indexFor();
+					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
+				}
 				left = k[i];
 				right = this.rightOf(i);
 				c0 = c[i << 1];
@@ -393,6 +435,8 @@ export class PiecewisePolynomial implements CurveFit {
 		const n = xs.length;
 		const k = this.knots;
 		const c = this.coefficients;
+		const m = this.pieces;
+		let ix = this.index;
 		let outside = 0;
 		let i = 0;
 		let left = k[0];
@@ -408,7 +452,11 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				i = this.seek(x, i);
+				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				else {
+					if (ix === null) ix = this.indexFor();
+					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
+				}
 				left = k[i];
 				right = this.rightOf(i);
 				const o = 3 * i;
@@ -428,22 +476,30 @@ export class PiecewisePolynomial implements CurveFit {
 
 	/**
 	 * Search index for points in random order, built on first need and never
-	 * serialised: the domain is cut into as many equal buckets as there are
-	 * pieces, and start[b] is the piece holding the left end of bucket b. A
-	 * point's piece then lies between start[b] and start[b + 1], usually the
-	 * same or the next one, so a lookup costs one multiply and a step or two of
-	 * bisection instead of log2(pieces) steps with a cache miss each. Costs one
-	 * 32-bit integer per piece (half a double per knot).
+	 * serialised: the domain is cut into equal buckets (about one per piece),
+	 * and start[b] is the piece holding the left end of bucket b. A point's
+	 * piece then lies between start[b] and start[b + 1], usually within a piece
+	 * or two, so a lookup costs one multiply and a step or two of bisection
+	 * instead of log2(pieces) steps with a cache miss each. Costs one 32-bit
+	 * integer per bucket (see the bucket count below).
 	 */
-	private index: { start: Int32Array; inv: number; nb: number } | null = null;
+	private index: BucketIndex | null = null;
 
-	private buildIndex(): { start: Int32Array; inv: number; nb: number } {
+	/** bytes held by the random-order search index (0 until a batch has needed it) */
+	get searchIndexBytes(): number {
+		return this.index ? this.index.start.byteLength : 0;
+	}
+
+	private buildIndex(): BucketIndex {
 		const k = this.knots;
 		const m = this.pieces;
 		const lo = this.domain[0];
-		const width = this.domain[1] - lo;
-		const nb = m;
-		const inv = nb / width;
+		// One bucket per piece while the index is small (≤ 256 KiB, cache-resident); beyond
+		// that one per four pieces: for large fits the lookup is bound by cache misses on
+		// the knots and coefficients, so a coarser index is as fast and costs an eighth of
+		// a double per knot instead of half.
+		const nb = Math.max(1, Math.min(m, Math.max(Math.ceil(m / 4), 65536)));
+		const inv = nb / (this.domain[1] - lo);
 		const start = new Int32Array(nb + 1);
 		let i = 0;
 		for (let b = 0; b <= nb; b++) {
@@ -451,7 +507,7 @@ export class PiecewisePolynomial implements CurveFit {
 			while (i < m - 1 && k[i + 1] <= xb) i++;
 			start[b] = i;
 		}
-		this.index = { start, inv, nb };
+		this.index = { start, inv, last: nb - 1, lo };
 		return this.index;
 	}
 
