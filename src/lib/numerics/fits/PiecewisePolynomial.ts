@@ -79,6 +79,21 @@ interface BucketIndex {
 }
 
 /**
+ * The piece of x when it lies at most eight pieces to the right of piece i
+ * (−1 otherwise): sorted batches step through the knots sequentially, which
+ * beats any search when points and knots are about equally dense.
+ */
+function walkForward(k: Float64Array, m: number, i: number, x: number): number {
+	if (!(x >= k[i])) return -1;
+	const last = m - 1;
+	for (let step = 0; step < 8; step++) {
+		if (i === last || x < k[i + 1]) return i;
+		i++;
+	}
+	return i === last || x < k[i + 1] ? i : -1;
+}
+
+/**
  * Piece of x (inside the domain) through the bucket index: the bucket of x,
  * then bisection between the pieces at its two edges. Bucket edges are
  * rounded, so a point on the wrong side of one falls back to full bisection.
@@ -239,10 +254,11 @@ export class PiecewisePolynomial implements CurveFit {
 
 	/**
 	 * The batch kernels. Each point first tests the piece of the previous point
-	 * (its left and right ends and, for cubics, its four coefficients are held in
-	 * locals), so a sorted batch runs through the knots like a cursor,
-	 * O(points + knots) in all. Any other point goes to `seek`: the next piece,
-	 * else the bucket index, else bisection. The right end of the last piece is
+	 * (its left and right ends and its coefficients are held in locals), then
+	 * walks up to eight pieces forward, so a sorted batch runs through the knots
+	 * like a cursor, O(points + knots) in all. Any other point is located
+	 * through the bucket index (built once 32 points in a batch have needed a
+	 * search), or by bisection before that. The right end of the last piece is
 	 * the double just above the domain's end, so every point that passes the
 	 * two comparisons is inside the data; the rest (outside, NaN) take the
 	 * extrapolation rule. One loop per degree and output kind keeps the
@@ -297,7 +313,8 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				const j = walkForward(k, m, i, x);
+				if (j >= 0) i = j;
 				else {
 					if (ix === null) ix = this.indexFor();
 					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
@@ -340,7 +357,8 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				const j = walkForward(k, m, i, x);
+				if (j >= 0) i = j;
 				else {
 					if (ix === null) ix = this.indexFor();
 					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
@@ -379,7 +397,8 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				const j = walkForward(k, m, i, x);
+				if (j >= 0) i = j;
 				else {
 					if (ix === null) ix = this.indexFor();
 					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
@@ -416,7 +435,8 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				const j = walkForward(k, m, i, x);
+				if (j >= 0) i = j;
 				else {
 					if (ix === null) ix = this.indexFor();
 					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
@@ -452,7 +472,8 @@ export class PiecewisePolynomial implements CurveFit {
 					outside++;
 					continue;
 				}
-				if (x >= right && (i + 2 >= m || x < k[i + 2])) i++;
+				const j = walkForward(k, m, i, x);
+				if (j >= 0) i = j;
 				else {
 					if (ix === null) ix = this.indexFor();
 					i = ix === null ? this.findPiece(x) : locateIn(ix, k, m, x);
