@@ -49,6 +49,18 @@ describe('leave-one-out', () => {
 		expectClose(a.looRmse, b.rmse, 1e-9);
 	});
 
+	it.each(['linear', 'pchip', 'akima-modified', 'local-quadratic', 'local-cubic', 'softened-linear', 'akima', 'cubic-not-a-knot'] as CurveMethod[])(
+		'%s: refits (windowed for local methods) equal full brute-force refits',
+		(method) => {
+			const { x, y } = unevenRough(40, 23);
+			const a = auditFidelity(fitCurve(method, x, y), x, y);
+			const b = bruteLoo(method, x, y, {});
+			expect(a.looMethod).toBe('refit');
+			expectClose(a.looRmse, b.rmse, 1e-12, 'rmse');
+			expectClose(a.looMax, b.max, 1e-12, 'max');
+		}
+	);
+
 	it('refits on large tables use an evenly spread subset and say so', () => {
 		const { x, y } = unevenSmooth(500, 2);
 		const a = auditFidelity(fitCurve('pchip', x, y), x, y, { looMaxPoints: 50 });

@@ -92,13 +92,32 @@ function setupBands(x: Float64Array, y: Float64Array, w: Float64Array): Bands {
 }
 
 /** Solve at one λ; with `full` also the hat diagonal (needed for GCV and leave-one-out). */
-function solveAt(bd: Bands, lambda: number, full: boolean): SmoothingSolution {
+/** Work arrays for one solve; the GCV search reuses one set for all its λ. */
+interface Workspace {
+	D: Float64Array;
+	L1: Float64Array;
+	L2: Float64Array;
+	z: Float64Array;
+	S0: Float64Array;
+	S1: Float64Array;
+	S2: Float64Array;
+	gamma: Float64Array;
+	g: Float64Array;
+	leverage: Float64Array;
+	oneMinus: Float64Array;
+}
+
+function workspace(n: number): Workspace {
+	const N = n - 2;
+	const a = (k: number) => new Float64Array(k);
+	return { D: a(N), L1: a(N), L2: a(N), z: a(N), S0: a(N), S1: a(N), S2: a(N), gamma: a(n), g: a(n), leverage: a(n), oneMinus: a(n) };
+}
+
+function solveAt(bd: Bands, lambda: number, full: boolean, ws: Workspace = workspace(bd.n)): SmoothingSolution {
 	const { n, h, w, y, R0, R1, M0, M1, M2, Qty } = bd;
 	const N = n - 2;
 	// LDLᵀ of the pentadiagonal B: unit lower factor with sub-diagonals L1, L2.
-	const D = new Float64Array(N);
-	const L1 = new Float64Array(N);
-	const L2 = new Float64Array(N);
+	const { D, L1, L2 } = ws;
 	for (let J = 0; J < N; J++) {
 		const b0 = R0[J] + lambda * M0[J];
 		const b1 = J + 1 < N ? R1[J] + lambda * M1[J] : 0;
@@ -112,7 +131,7 @@ function solveAt(bd: Bands, lambda: number, full: boolean): SmoothingSolution {
 		L2[J] = b2 / dJ;
 	}
 	// Solve L D Lᵀ γ = Qᵀy.
-	const z = new Float64Array(N);
+	const z = ws.z;
 	for (let J = 0; J < N; J++) {
 		let v = Qty[J];
 		if (J >= 1) v -= L1[J - 1] * z[J - 1];
@@ -126,10 +145,12 @@ function solveAt(bd: Bands, lambda: number, full: boolean): SmoothingSolution {
 		if (J + 2 < N) v -= L2[J] * z[J + 2];
 		z[J] = v;
 	}
-	const gamma = new Float64Array(n);
+	const gamma = ws.gamma;
+	gamma[0] = 0;
+	gamma[n - 1] = 0;
 	for (let J = 0; J < N; J++) gamma[J + 1] = z[J];
 	// g = y − λW⁻¹Qγ, with (Qγ)_i = Δγ_i/h_i − Δγ_{i−1}/h_{i−1} (missing terms dropped at the ends).
-	const g = new Float64Array(n);
+	const g = ws.g;
 	let rss = 0;
 	for (let i = 0; i < n; i++) {
 		let qg = 0;
@@ -139,15 +160,13 @@ function solveAt(bd: Bands, lambda: number, full: boolean): SmoothingSolution {
 		g[i] = y[i] - r;
 		rss += w[i] * r * r;
 	}
-	const leverage = new Float64Array(full ? n : 0);
-	const oneMinus = new Float64Array(full ? n : 0);
+	const leverage = ws.leverage;
+	const oneMinus = ws.oneMinus;
 	let edf = NaN;
 	let gcv = NaN;
 	if (full) {
 		// Bands of Σ = B⁻¹ (Hutchinson & de Hoog), backwards from the last row.
-		const S0 = new Float64Array(N);
-		const S1 = new Float64Array(N);
-		const S2 = new Float64Array(N);
+		const { S0, S1, S2 } = ws;
 		for (let J = N - 1; J >= 0; J--) {
 			const l1 = J + 1 < N ? L1[J] : 0;
 			const l2 = J + 2 < N ? L2[J] : 0;
@@ -206,9 +225,20 @@ function gcvLambda(bd: Bands): { lambda: number; atEdge: boolean } {
 	}
 	const l0 = Math.log10(trR / trM);
 	const lo = l0 - 6;
-	const hi = l0 + 4 * Math.log10(bd.n) + 6;
+	// tr A falls to 2 (a straight line) about n⁴ times above λ₀: scan to there and a bit beyond.
+	const hi = l0 + 4 * Math.log10(bd.n) + 3;
 	const step = 0.25;
-	const score = (u: number) => solveAt(bd, 10 ** u, true).gcv;
+	const ws = workspace(bd.n);
+	// Far out in λ the system B ≈ λ·QᵀW⁻¹Q inherits that matrix's condition number (∝ n⁴)
+	// and can stop being numerically positive definite; such λ are simply not candidates.
+	const score = (u: number) => {
+		try {
+			return solveAt(bd, 10 ** u, true, ws).gcv;
+		} catch (e) {
+			if (e instanceof FitError && e.code === 'singular') return Infinity;
+			throw e;
+		}
+	};
 	let bestU = lo;
 	let best = Infinity;
 	const count = Math.ceil((hi - lo) / step);
