@@ -6,10 +6,12 @@
  *     f(x) = c0 + c1·s + c2·s² + c3·s³      on [knots[i], knots[i+1]]
  *
  * stored piece after piece in one Float64Array (stride degree + 1). A cubic
- * spline on n points therefore keeps n knots + 4(n − 1) coefficients: five
- * doubles per knot. One routine returns f, f′ and f″ together (Horner), a
- * binary search finds the piece of a random point, and a monotone cursor
- * walks sorted batches in O(points + knots).
+ * spline on n points therefore keeps n knots + 4(n − 1) coefficients (the
+ * builders leave four spare doubles at the end of the buffer): five doubles
+ * per knot. One routine returns f, f′ and f″ together (Horner); a single
+ * point finds its piece by bisection; batches keep a monotone cursor, so
+ * sorted points walk the knots in O(points + knots), and points in random
+ * order go through a bucket index built on first need (see buildIndex).
  *
  * A point exactly on an interior knot belongs to the piece on its right; the
  * last knot belongs to the last piece. So f′ and f″ at either end knot are the
