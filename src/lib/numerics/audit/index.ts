@@ -1,0 +1,2 @@
+export { auditSmoothness, compareContinuity, type KnotJump, type MeasuredContinuity, type SmoothnessAudit, type SmoothnessOptions } from './smoothness';
+export { auditFidelity, type FidelityAudit, type FidelityOptions } from './fidelity';
