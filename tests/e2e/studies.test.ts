@@ -85,7 +85,7 @@ describe('studies in the browser', () => {
 		await screenshot(page, 'study');
 
 		// the pick
-		await page.getByLabel('Fit', { exact: true }).last().selectOption({ label: 'pchip' });
+		await page.getByLabel('Fit to pick').selectOption({ label: 'pchip' });
 		await page.getByLabel('Rationale').fill('Converges from every start with both optimizers; C1; keeps the data shape.');
 		await page.getByRole('button', { name: 'Record the pick' }).click();
 		await page.getByRole('heading', { name: 'Picked: pchip' }).waitFor();
@@ -111,6 +111,7 @@ describe('studies in the browser', () => {
 		const bar = page.getByRole('progressbar', { name: 'Runs stored' });
 		if (await bar.isVisible()) {
 			await expect(page.getByTestId('progress-counts').textContent()).resolves.toMatch(/of 8,000 runs/);
+			await page.waitForTimeout(600); // the bar eases to its new width
 			await screenshot(page, 'study-running');
 		}
 		await page.getByRole('heading', { name: 'Scorecard' }).waitFor({ timeout: 150_000 });
