@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startBoss } from '../../src/lib/server/studies/boss';
 import { launchStudy } from '../../src/lib/server/studies/launch';
 import { studyInputSchema } from '../../src/lib/server/studies/schema';
-import { json, testDb } from './client';
+import { caughtMail, json, testDb } from './client';
 import { dataset, launch, team, waitFor, type ErrorBody } from './studiesFixtures';
 
 let t: Awaited<ReturnType<typeof team>>;
@@ -148,5 +148,49 @@ describe('cancelling a study while it runs', () => {
 		const again = await t.editor.client.post(`/api/v1/studies/${id}/cancel`);
 		expect(again.status).toBe(409);
 		expect((await json<ErrorBody>(again)).error.message).toMatch(/already ended \(cancelled\)/);
+	});
+});
+
+describe('a job that keeps failing', () => {
+	it('fails its study after its retries, with the error shown on the study and e-mailed', { timeout: 120_000 }, async () => {
+		const queue = `studies-test-${randomBytes(4).toString('hex')}`;
+		const b = await startBoss(process.env.DATABASE_URL!, queue, () => {});
+		try {
+			const input = studyInputSchema.parse({
+				name: 'Broken fit file',
+				datasetId,
+				output: 'eta',
+				problem: { kind: 'maximize' },
+				fits: [{ method: 'pchip' }, { method: 'akima' }],
+				optimizers: [{ method: 'sqp' }],
+				starts: { grid: 5 }
+			});
+			const { id } = await launchStudy(testDb(), { workspaceId: t.ws.id, userId: t.editor.id, origin: process.env.KINKLESS_TEST_URL!, input, queue });
+			// damage one stored fit before any worker sees it: every job on that fit now throws
+			await testDb()('study_fits').where({ study_id: id, position: 1 }).update({ fit: JSON.stringify({ format: 'not a fit file' }) });
+			startWorker(queue, 1);
+			const s = await until(
+				'the study to fail',
+				async () => {
+					const row = await testDb()('studies').where({ id }).first('status', 'error');
+					return row.status !== 'queued' && row.status !== 'running' ? row : null;
+				},
+				100_000
+			);
+			expect(s.status).toBe('failed');
+			const api = await json<{ status: string; error: string }>(await t.viewer.client.get(`/api/v1/studies/${id}`));
+			expect(api.status).toBe('failed');
+			expect(api.error).toMatch(/fit file/);
+			const page = await t.viewer.client.get(`/w/${t.ws.slug}/studies/${id}`);
+			expect(await page.text()).toContain('The study failed:');
+			const mail = await until(
+				'the "study failed" e-mail',
+				async () => (await caughtMail(t.editor.email, 20_000)).subject === 'Study failed: Broken fit file' || null,
+				30_000
+			);
+			expect(mail).toBe(true);
+		} finally {
+			await b.stop({ graceful: false, timeout: 1000 }).catch(() => {});
+		}
 	});
 });
