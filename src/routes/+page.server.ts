@@ -7,8 +7,9 @@ import * as workspaces from '$lib/server/workspaces';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals }) => {
-	if (!locals.user) return { workspaces: null };
-	return { workspaces: await workspaces.listForUser(db(), locals.user.id) };
+	if (!locals.user) return { workspaces: null, recentStudies: [] };
+	const [mine, recentStudies] = await Promise.all([workspaces.listForUser(db(), locals.user.id), workspaces.recentStudies(db(), locals.user.id)]);
+	return { workspaces: mine, recentStudies };
 }) satisfies PageServerLoad;
 
 export const actions = {

@@ -24,6 +24,9 @@ describe('foundation in the browser', () => {
 		await page.getByLabel('Password').fill('larkmoor-demo-2026');
 		await page.getByRole('button', { name: 'Sign in' }).click();
 		await page.getByRole('link', { name: 'Larkmoor Aero (demo)' }).waitFor();
+		// the seeded demo studies are listed on the signed-in home page
+		await page.getByRole('heading', { name: 'Recent studies' }).waitFor();
+		expect(await page.getByText('Larkmoor Aero (demo) · done').count()).toBeGreaterThan(0);
 		await page.getByRole('button', { name: 'Sign out' }).click();
 		await page.getByRole('link', { name: 'Create an account' }).first().waitFor();
 		await page.close();

@@ -23,6 +23,16 @@ export const listForUser = (db: Db, userId: string) =>
 		.orderBy('w.name')
 		.select<{ id: string; slug: string; name: string; role: Role }[]>('w.id', 'w.slug', 'w.name', 'm.role');
 
+/** The newest studies across the user's workspaces, for the home page. */
+export const recentStudies = (db: Db, userId: string, limit = 8) =>
+	db('studies as s')
+		.join('workspaces as w', 'w.id', 's.workspace_id')
+		.join('memberships as m', 'm.workspace_id', 'w.id')
+		.where('m.user_id', userId)
+		.orderBy('s.created_at', 'desc')
+		.limit(limit)
+		.select<{ id: string; name: string; status: string; slug: string; workspace: string }[]>('s.id', 's.name', 's.status', 'w.slug', 'w.name as workspace');
+
 /** Create a workspace with a unique slug; its creator becomes owner. */
 export async function create(db: Db, userId: string, name: string): Promise<{ id: string; slug: string; name: string }> {
 	return db.transaction(async (trx) => {
