@@ -29,7 +29,7 @@
  *    take the Newton step J d = −r (LU with pivoting); others, or a singular J,
  *    the minimum-norm / least-squares step with a small Levenberg–Marquardt
  *    shift (J. J. Moré, "The Levenberg–Marquardt algorithm: implementation and
- *    theory", Lecture Notes in Mathematics 630, 1978). Damped by backtracking
+ *    theory", in Numerical Analysis, Springer LNM 630, 1978). Damped by backtracking
  *    on ½‖r‖² with the Armijo test (N&W §11.2, Algorithm 11.4 without trust
  *    region); steps are projected into the bounds. Inequality constraints are
  *    checked at the root: a root that violates one is `stalled`.

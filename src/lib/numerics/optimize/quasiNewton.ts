@@ -49,7 +49,7 @@ export function inverseBfgsUpdate(H: number[][], s: number[], y: number[]): bool
 /**
  * Damped BFGS update of a Hessian approximation B (M. J. D. Powell, "A fast
  * algorithm for nonlinearly constrained optimization calculations", in
- * Numerical Analysis, Dundee 1977, Lecture Notes in Mathematics 630, Springer
+ * Numerical Analysis, Dundee 1977, ed. G. A. Watson, Springer LNM 630,
  * 1978, pp. 144–157; as Procedure 18.2 in Nocedal & Wright 2006):
  *   θ = 1 if sᵀy ≥ 0.2 sᵀBs, else 0.8 sᵀBs / (sᵀBs − sᵀy);  r = θy + (1 − θ)Bs;
  *   B⁺ = B − Bs sᵀB / sᵀBs + r rᵀ / sᵀr.
