@@ -2,7 +2,7 @@
 // thresholds are our own engineering choices (common practice, no source);
 // the cases are the ones a design review would raise.
 import { describe, expect, it } from 'vitest';
-import { rank, type ScorecardRow } from '$lib/server/studies/scorecard';
+import { monotoneOf, rank, type ScorecardRow } from '$lib/server/studies/scorecard';
 import { separateOptima, verdict, type VerdictInput } from '$lib/server/studies/verdict';
 
 interface Case {
@@ -43,6 +43,7 @@ function row(c: Case, bestLoo: number, kind = 'maximize'): Omit<ScorecardRow, 'r
 		reachesReference: c.reaches ?? true,
 		continuity,
 		fidelity,
+		monotone: { applies: 'no', reason: 'data not monotone' },
 		optima,
 		verdict: verdict(input)
 	};
@@ -127,5 +128,15 @@ describe('the scorecard verdict and ranking', () => {
 		expect(o[0].share).toBeCloseTo(0.8, 12);
 		expect(o[1].x).toBeCloseTo(0.405, 12);
 		expect(separateOptima([], 0, 1)).toEqual([]);
+	});
+
+	it('never says “monotone kept” where the data are not monotone', () => {
+		const fid = (f: Record<string, unknown>) => ({ fidelity: { looRmse: 0.01, ...f } });
+		expect(monotoneOf(fid({ dataMonotone: null, monotoneKept: true }))).toEqual({ applies: 'no', reason: 'data not monotone' });
+		expect(monotoneOf(fid({ dataMonotone: 'increasing', monotoneKept: true }))).toEqual({ applies: 'whole', direction: 'increasing', kept: true });
+		expect(monotoneOf(fid({ dataMonotone: 'decreasing', monotoneKept: false }))).toEqual({ applies: 'whole', direction: 'decreasing', kept: false });
+		const s = monotoneOf(fid({ dataMonotone: null, monotoneKept: true, stretches: [{ from: 0, to: 6, direction: 'increasing', kept: false, worstAt: 3.5 }, { from: 6, to: 10, direction: 'decreasing', kept: true, worstAt: null }] }));
+		expect(s).toEqual({ applies: 'stretches', total: 2, kept: 1, broken: [{ from: 0, to: 6 }] });
+		expect(monotoneOf({ fidelity: { error: 'x' } })).toBeNull();
 	});
 });

@@ -47,7 +47,7 @@ export function boundNote(x: number[], ctx: Pick<ReasonContext, 'bounds' | 'inpu
 	return null;
 }
 
-/** The data point x sits on (relative tolerance 1e-7 of the local spacing), if any. */
+/** The data point x sits on (1e-6 of the local spacing), if any. */
 export function dataPointAt(x: number, dataX: ArrayLike<number> | undefined): number | null {
 	if (!dataX || dataX.length < 2 || !Number.isFinite(x)) return null;
 	let lo = 0;
@@ -59,7 +59,8 @@ export function dataPointAt(x: number, dataX: ArrayLike<number> | undefined): nu
 	}
 	for (const i of [lo, hi]) {
 		const h = Math.abs(dataX[Math.min(i + 1, dataX.length - 1)] - dataX[Math.max(i - 1, 0)]) / 2;
-		if (Math.abs(x - dataX[i]) <= 1e-7 * h) return dataX[i];
+		// 1e-6 of the spacing: a converged run stops within ~‖∇f‖/f″ of the optimum, far below this, while an optimum between points is a sizeable share of an interval away
+		if (Math.abs(x - dataX[i]) <= 1e-6 * h) return dataX[i];
 	}
 	return null;
 }

@@ -13,6 +13,7 @@
 import os from 'node:os';
 import type { Knex } from 'knex';
 import { auditFidelity } from '../../numerics/audit/fidelity';
+import { monotoneStretches } from '../../numerics/audit/monotoneStretches';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../numerics/fits/types';
@@ -352,6 +353,8 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 				dataMonotone: a.dataMonotone,
 				monotoneKept: a.monotoneKept,
 				spuriousExtrema: a.spuriousExtrema,
+				// data that are not monotone as a whole: is each rising or falling stretch kept?
+				stretches: a.dataMonotone ? null : monotoneStretches(fit, dataset.data[xi], dataset.data[yi]).map((t) => ({ from: t.from, to: t.to, direction: t.direction, kept: t.kept, worstAt: t.worstAt })),
 				notes: a.notes
 			};
 		});

@@ -38,6 +38,8 @@ export interface ScorecardRow {
 	reachesReference: boolean | null;
 	continuity: { declared: string; measured: string | null };
 	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
+	/** whole-curve monotonicity when the data are monotone, else per monotone stretch of the data */
+	monotone: Monotone;
 	/** separate places the converged runs ended (first coordinate), with the share of converged runs at each */
 	optima: { x: number; share: number }[] | null;
 	verdict: Verdict;
@@ -111,6 +113,7 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			fit?.fidelity && !fit.fidelity.error
 				? { looRmse: num(fit.fidelity.looRmse), overshoot: num(fit.fidelity.overshoot), overshootRelative: num(fit.fidelity.overshootRelative), monotoneKept: fit.fidelity.monotoneKept ?? null, spuriousExtrema: num(fit.fidelity.spuriousExtrema) }
 				: null;
+		const monotone = monotoneOf(fit);
 		const continuity = { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.error ? null : (fit?.smoothness?.measured ?? null) };
 		const successRate = runs ? converged / runs : 0;
 		const optima = converged ? separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width) : null;
@@ -135,11 +138,33 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			reachesReference: reaches,
 			continuity,
 			fidelity,
+			monotone,
 			optima,
-			verdict: verdict({ kind, successRate, runs, atKink: s.at_kink as number, reachesReference: reaches, continuity, fidelity, optima, fRange, bestLooRmse: bestLoo, roots: fit?.reference?.roots?.length ?? null })
+			verdict: verdict({ kind, successRate, runs, atKink: s.at_kink as number, reachesReference: reaches, continuity, fidelity, optima, fRange, bestLooRmse: bestLoo, monotoneBroken: brokenText(monotone), roots: fit?.reference?.roots?.length ?? null })
 		};
 	});
 	return rank(rows);
+}
+
+export type Monotone =
+	| { applies: 'whole'; direction: string; kept: boolean }
+	| { applies: 'stretches'; total: number; kept: number; broken: { from: number; to: number }[] }
+	| { applies: 'no'; reason: string }
+	| null;
+
+/** Monotonicity as the scorecard states it: never "kept" where the data are not monotone. */
+export function monotoneOf(fit: Pick<StudyFit, 'fidelity'> | undefined): Monotone {
+	const f = fit?.fidelity;
+	if (!f || f.error) return null;
+	if (f.dataMonotone) return { applies: 'whole', direction: f.dataMonotone, kept: f.monotoneKept !== false };
+	if (f.stretches && f.stretches.length) return { applies: 'stretches', total: f.stretches.length, kept: f.stretches.filter((t) => t.kept).length, broken: f.stretches.filter((t) => !t.kept).map((t) => ({ from: t.from, to: t.to })) };
+	return { applies: 'no', reason: 'data not monotone' };
+}
+
+function brokenText(m: Monotone): string | null {
+	if (m?.applies === 'whole' && !m.kept) return `not monotone where the data are ${m.direction}`;
+	if (m?.applies === 'stretches' && m.kept < m.total) return `breaks ${m.total - m.kept} of ${m.total} monotone stretches of the data`;
+	return null;
 }
 
 /** Sort by the stated rule (verdict first) and number the rows. */

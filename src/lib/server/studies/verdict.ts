@@ -22,7 +22,7 @@
 export type ConcernClass = 'minor' | 'trap' | 'unfaithful';
 
 export interface Concern {
-	code: 'far-from-data' | 'overshoot' | 'split' | 'kink-trap' | 'fails' | 'rings' | 'less-faithful' | 'kinked' | 'stops-early' | 'short-of-reference';
+	code: 'far-from-data' | 'overshoot' | 'split' | 'kink-trap' | 'fails' | 'rings' | 'less-faithful' | 'kinked' | 'stops-early' | 'short-of-reference' | 'not-monotone';
 	class: ConcernClass;
 	/** a short phrase in plain words, for the verdict column */
 	text: string;
@@ -51,6 +51,8 @@ export interface VerdictInput {
 	fRange: number | null;
 	/** the smallest leave-one-out RMSE among the study's fits */
 	bestLooRmse: number | null;
+	/** what of the data's monotone direction the fit breaks, in words (null: nothing) */
+	monotoneBroken?: string | null;
 	/** how many roots the fit's reference found (solve studies) */
 	roots?: number | null;
 }
@@ -77,7 +79,7 @@ export const THRESHOLDS = {
 export const VERDICT_RULE =
 	'Each row gets a verdict from its concerns. Worst: the fit is unfaithful to the data (leave-one-out RMSE above 5% of the fit’s range of f, or overshoot above 10%) — a clean optimum of the wrong curve is still wrong. ' +
 	'Next: the optimizer is trapped — converged runs end at separate points (more than 0.5% of the bounds apart, so the answer depends on the start), a measured kink stops runs, or fewer than half the runs converge. ' +
-	'Then minor concerns: spurious extrema or overshoot above 1%, leave-one-out RMSE above 1% of the range and 3× the best fit’s, 5% or more of runs stopping early, a best end point short of the fit’s own optimum, or a kink that runs got past. ' +
+	'Then minor concerns: spurious extrema or overshoot above 1%, leave-one-out RMSE above 1% of the range and 3× the best fit’s, 5% or more of runs stopping early, a best end point short of the fit’s own optimum, or a kink that runs got past, a rising or falling stretch of the data the fit does not keep. ' +
 	'Rows rank by their worst concern (none first), then by fewer concerns, then success rate (higher first), reaching the reference, leave-one-out RMSE (lower first) and median evaluations (fewer first).';
 
 const pct = (v: number) => `${v >= 0.1 ? Math.round(v * 100) : Number((v * 100).toPrecision(2))}%`;
@@ -121,6 +123,7 @@ export function verdict(r: VerdictInput): Verdict {
 		});
 	if (looRel !== null && looRel <= THRESHOLDS.looFar && looRel > THRESHOLDS.looNote && loo !== null && r.bestLooRmse !== null && loo > THRESHOLDS.looRatio * r.bestLooRmse)
 		concerns.push({ code: 'less-faithful', class: 'minor', text: `leave-one-out error ${Number((loo / r.bestLooRmse).toPrecision(2))}× the best fit’s` });
+	if (r.monotoneBroken) concerns.push({ code: 'not-monotone', class: 'minor', text: r.monotoneBroken });
 	if (r.reachesReference === false) concerns.push({ code: 'short-of-reference', class: 'minor', text: 'best end point short of the fit’s own optimum' });
 
 	const worst = concerns.reduce<ConcernClass | null>((w, c) => (w === null || CLASS_ORDER[c.class] > CLASS_ORDER[w] ? c.class : w), null);
@@ -141,6 +144,7 @@ function headline(concerns: Concern[], worst: ConcernClass | null): string {
 	if (has('less-faithful')) return 'converges, less faithful';
 	if (has('kinked')) return 'converges despite kinks';
 	if (has('stops-early')) return 'some runs stop early';
+	if (has('not-monotone')) return 'converges, but wiggles where the data do not';
 	if (has('split')) return 'finds several roots';
 	return 'converges short of the fit’s optimum';
 }
