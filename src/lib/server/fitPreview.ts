@@ -101,8 +101,8 @@ function samplePoints(lo: number, hi: number, knots: Float64Array): Float64Array
 	return sorted.slice(0, m);
 }
 
-/** Fit, sample and audit one output of a curve dataset. Throws 422 naming the field at fault. */
-export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): FitPreview {
+/** The data and settings of a preview request, checked. Throws 422 naming the field at fault. */
+function previewInput(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
 	const { columns, data } = dataset;
 	const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
 	const j = columns.findIndex((c) => c.name === request.output && c.role === 'output');
@@ -126,7 +126,23 @@ export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, requ
 	if (o.lambda !== undefined && o.lambda !== null) options.lambda = o.lambda;
 	if (o.width !== undefined) options.width = o.width;
 	if (o.slopes) options.slopes = o.slopes;
+	return { x, y, options, input: columns[i], output: columns[j] };
+}
 
+/** The fit a preview request describes (for exports). Throws 422 naming the field at fault. */
+export function previewFit(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
+	const { x, y, options, input, output } = previewInput(dataset, request);
+	try {
+		return { fit: fitCurve(request.method, x, y, options), input, output };
+	} catch (e) {
+		if (e instanceof FitError) fitFailure(e);
+		throw e;
+	}
+}
+
+/** Fit, sample and audit one output of a curve dataset. Throws 422 naming the field at fault. */
+export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): FitPreview {
+	const { x, y, options } = previewInput(dataset, request);
 	try {
 		const fit = fitCurve(request.method, x, y, options);
 		const smooth = auditSmoothness(fit, { worst: WORST_LISTED });
