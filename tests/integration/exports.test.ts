@@ -163,3 +163,32 @@ describe('dataset fit preview export', () => {
 		await expectError(await t.outsider.client.get(`${base}?output=eta&method=pchip`), 404);
 	});
 });
+
+describe('study record', () => {
+	it('prints as HTML and as PDF, from the study and through a share link, with the caution', async () => {
+		const r = await t.viewer.client.get(`/w/${t.ws.slug}/studies/${studyId}/record`);
+		expect(r.status).toBe(200);
+		expect(r.headers.get('content-type')).toContain('text/html');
+		const html = await r.text();
+		expect(html.replace(/&#39;/g, "'")).toContain(CAUTION);
+		expect(html).toContain('Coarse prop sweep (invented)');
+		expect(html).toMatch(/SHA-256 of the upload<\/dt><dd>[0-9a-f]{64}/);
+		expect(html).toContain('@media print');
+		expect((html.match(/<svg /g) ?? []).length).toBeGreaterThanOrEqual(2);
+		const pdf = await t.viewer.client.get(`/w/${t.ws.slug}/studies/${studyId}/record?format=pdf`);
+		expect(pdf.status).toBe(200);
+		expect(pdf.headers.get('content-type')).toBe('application/pdf');
+		expect(pdf.headers.get('content-disposition')).toMatch(/^attachment; filename="study-record-Export-me\.pdf"$/);
+		const bytes = Buffer.from(await pdf.arrayBuffer());
+		expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+		expect(bytes.length).toBeGreaterThan(5000);
+		const share = await json<{ token: string }>(await t.owner.client.post(`/api/v1/studies/${studyId}/share`));
+		const shared = await new Client().get(`/shared/${share.token}/record`);
+		expect(shared.status).toBe(200);
+		expect(await shared.text()).toContain('read-only share link');
+		await expectError(await t.viewer.client.get(`/w/${t.ws.slug}/studies/${studyId}/record?format=docx`), 400, 'format');
+		await expectError(await t.outsider.client.get(`/w/${t.ws.slug}/studies/${studyId}/record`), 404);
+		const anon = await new Client().get(`/w/${t.ws.slug}/studies/${studyId}/record`);
+		expect(anon.status).toBe(303);
+	});
+});
