@@ -42,13 +42,13 @@ async function exportPreview(event: RequestEvent, raw: Record<string, unknown>):
 	}
 	const full = await datasetStore.getWithData(db(), dataset.id);
 	if (!full) fail4xx(404, 'no such dataset');
-	const { fit, input, output } = previewFit(full, parsed.data);
-	const doc = await buildFitExport(fit.toJSON(), {
+	const { fit, input, output } = await previewFit(full, parsed.data);
+	const doc = await buildFitExport(fit, {
 		dataset: { name: full.name, version: full.version, sha256: full.sourceSha256 },
 		inputs: [{ name: input.name, unit: input.unit }],
 		output: { name: output.name, unit: output.unit }
 	});
-	return exportResponse(doc, format, [full.name, `v${full.version}`, output.name, fit.method]);
+	return exportResponse(doc, format, [full.name, `v${full.version}`, output.name, String(fit.method)]);
 }
 
 /** `?output=…&method=…&format=…` plus options → a download of the previewed fit. Viewers may export. */
