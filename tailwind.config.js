@@ -5,11 +5,11 @@ export default {
 	theme: {
 		extend: {
 			colors: {
-				ink: { DEFAULT: '#1d2433', soft: '#4a5568', faint: '#8a94a6' },
+				ink: { DEFAULT: '#1d2433', soft: '#4a5568', faint: '#5b6577' },
 				paper: { DEFAULT: '#fbfaf7', deep: '#f1efe9', line: '#dcd8ce' },
 				smooth: { DEFAULT: '#0f766e', light: '#ccebe7', dark: '#0b524c' },
-				kink: { DEFAULT: '#c2410c', light: '#fde3d3' },
-				verdict: { ok: '#15803d', warn: '#b45309', bad: '#b91c1c' }
+				kink: { DEFAULT: '#c2410c', light: '#fde3d3', dark: '#9a3412' },
+				verdict: { ok: '#166534', warn: '#92400e', bad: '#b91c1c' }
 			},
 			fontFamily: {
 				sans: ['"Inter Variable"', 'system-ui', 'sans-serif'],

@@ -156,6 +156,8 @@ async function appEnv(databaseUrl, port, extra = {}) {
 		PORT: String(port),
 		ORIGIN: process.env.ORIGIN ?? `http://127.0.0.1:${port}`,
 		SMTP_CATCHER_PORT: smtpPort,
+		// started for local use: turns on the caught-mail viewer (only with the catcher, a loopback origin and NODE_ENV != production)
+		KINKLESS_LOCAL: '1',
 		...extra
 	};
 }
@@ -176,7 +178,7 @@ async function start(dev) {
 	await waitForHttp(`http://127.0.0.1:${port}/api/health`, 120_000);
 	log(`Kinkless is running at ${env.ORIGIN}`);
 	log('demo sign-in: demo@larkmoor.example / larkmoor-demo-2026');
-	log('caught e-mail (local SMTP catcher): ' + `${env.ORIGIN}/dev/mail`);
+	if (!process.env.SMTP_URL) log('caught e-mail (local SMTP catcher, each user sees their own): ' + `${env.ORIGIN}/dev/mail`);
 	log('press Ctrl-C to stop everything');
 }
 

@@ -22,7 +22,12 @@ export const handle: Handle = async ({ event, resolve }) => {
 	const isApi = event.url.pathname.startsWith('/api/');
 
 	const authz = event.request.headers.get('authorization');
-	if (authz?.toLowerCase().startsWith('bearer ')) {
+	const bearer = authz?.toLowerCase().startsWith('bearer ') ?? false;
+	// API tokens are for /api/ only. Pages and their form actions (settings, token
+	// creation, account changes) need a signed-in session, so a leaked token cannot
+	// mint more tokens or change the account.
+	if (bearer && !isApi) return new Response('API tokens work only under /api/; sign in to use the pages', { status: 403, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+	if (bearer && authz) {
 		const user = await apiTokens.authenticate(db(), authz.slice(7).trim());
 		if (!user) return json(errorBody(401, 'the API token is unknown or revoked', 'bad-token'), { status: 401 });
 		event.locals.user = { id: user.id, email: user.email, name: user.name };

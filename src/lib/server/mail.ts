@@ -1,6 +1,6 @@
 // Outgoing e-mail through nodemailer over SMTP. Without SMTP_URL, messages go to
 // a local catcher (smtp-server on loopback) that stores them in PostgreSQL, where
-// /dev/mail lists them.
+// /dev/mail shows each signed-in user the ones addressed to them (see mailViewerEnabled).
 import nodemailer, { type Transporter } from 'nodemailer';
 import { SMTPServer } from 'smtp-server';
 import { simpleParser } from 'mailparser';
@@ -11,6 +11,24 @@ let transporter: Transporter | null = null;
 let catcher: SMTPServer | null = null;
 
 export const catchingMail = () => !process.env.SMTP_URL;
+
+const LOOPBACK = new Set(['127.0.0.1', 'localhost', '[::1]', '::1']);
+
+/**
+ * The caught-mail viewer (/dev/mail) is a development tool. It is on only when
+ * every one of these holds: mail is caught (no SMTP_URL), NODE_ENV is not
+ * `production`, the app was started for local use by `npm start`, `npm run dev`
+ * or `npm test` (they set KINKLESS_LOCAL=1), and the public origin is a loopback
+ * address. Even then it shows a signed-in user only the mail addressed to them.
+ */
+export function mailViewerEnabled(env: NodeJS.ProcessEnv = process.env): boolean {
+	if (env.SMTP_URL || env.NODE_ENV === 'production' || env.KINKLESS_LOCAL !== '1') return false;
+	try {
+		return LOOPBACK.has(new URL(env.ORIGIN ?? 'http://127.0.0.1').hostname);
+	} catch {
+		return false;
+	}
+}
 const catcherPort = () => Number(process.env.SMTP_CATCHER_PORT ?? 2525);
 
 function transport(): Transporter {
@@ -66,8 +84,12 @@ export function startCatcher(): Promise<void> {
 	});
 }
 
-export const listCaught = (limit = 100) =>
-	db()('caught_mail').orderBy('id', 'desc').limit(limit).select<{ id: number; received_at: Date; mail_from: string; rcpt_to: string[]; subject: string; text: string }[]>('id', 'received_at', 'mail_from', 'rcpt_to', 'subject', 'text');
+/** Caught messages addressed to `email` (never anyone else's), newest first. */
+export const listCaughtFor = (email: string, limit = 100) =>
+	db()('caught_mail')
+		.whereRaw('? = ANY(rcpt_to)', [email.trim().toLowerCase()])
+		.orderBy('id', 'desc')
+		.limit(limit).select<{ id: number; received_at: Date; mail_from: string; rcpt_to: string[]; subject: string; text: string }[]>('id', 'received_at', 'mail_from', 'rcpt_to', 'subject', 'text');
 
 export function escapeHtml(s: string): string {
 	return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);

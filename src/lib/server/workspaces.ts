@@ -77,7 +77,7 @@ export async function invite(db: Db, workspaceId: string, invitedBy: string, ema
 }
 
 export type InvitationView = { id: string; email: string; role: Role; workspace_id: string; workspace_slug: string; workspace_name: string; inviter: string | null };
-export type InvitationState = { ok: true; invitation: InvitationView } | { ok: false; reason: 'unknown' | 'used' | 'expired' };
+export type InvitationState = { ok: true; invitation: InvitationView } | { ok: false; reason: 'unknown' | 'used' | 'expired' | 'other-address' };
 
 export async function findInvitation(db: Db, token: string): Promise<InvitationState> {
 	const row = await db('invitations as i')
@@ -95,14 +95,24 @@ export async function findInvitation(db: Db, token: string): Promise<InvitationS
 export const INVITATION_MESSAGES = {
 	unknown: 'this invitation link is not valid',
 	used: 'this invitation was already accepted',
-	expired: `this invitation has expired (invitations last ${INVITE_DAYS} days); ask for a new one`
+	expired: `this invitation has expired (invitations last ${INVITE_DAYS} days); ask for a new one`,
+	'other-address': 'this invitation is for another e-mail address: sign in (or create an account) with the invited address to accept it'
 } as const;
 
-/** Accept: single use, atomic; an existing membership keeps the higher of the two roles. */
-export async function acceptInvitation(db: Db, token: string, userId: string): Promise<InvitationState> {
+/** Invitations are bound to their address: only the account with that e-mail may accept. */
+export const sameAddress = (a: string, b: string) => a.trim().toLowerCase() === b.trim().toLowerCase();
+
+/**
+ * Accept: single use, atomic, and only by the account whose e-mail is the invited
+ * address (the link went to that mailbox; holding it from anywhere else is not
+ * consent of its owner). An existing membership keeps the higher of the two roles.
+ */
+export async function acceptInvitation(db: Db, token: string, user: { id: string; email: string }): Promise<InvitationState> {
+	const userId = user.id;
 	return (db as import('knex').Knex).transaction(async (trx) => {
 		const state = await findInvitation(trx, token);
 		if (!state.ok) return state;
+		if (!sameAddress(state.invitation.email, user.email)) return { ok: false, reason: 'other-address' } as const;
 		const n = await trx('invitations').where({ id: state.invitation.id }).whereNull('accepted_at').update({ accepted_at: trx.fn.now(), accepted_by: userId });
 		if (n === 0) return { ok: false, reason: 'used' } as const;
 		const current = await trx('memberships').where({ workspace_id: state.invitation.workspace_id, user_id: userId }).first('role');

@@ -13,6 +13,7 @@
 import os from 'node:os';
 import type { Knex } from 'knex';
 import { auditFidelity } from '../../numerics/audit/fidelity';
+import { monotoneStretches } from '../../numerics/audit/monotoneStretches';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../numerics/fits/types';
@@ -23,6 +24,7 @@ import { insertJobs } from './boss';
 import { mailJob, runsJob, softSeconds, type StudyJob } from './jobs';
 import { packPath } from './pathPack';
 import { curveProblem, kinksOf, type ProblemSpec } from './problem';
+import { studyReason, type ReasonContext } from './reasonWording';
 import { referenceOptimum } from './reference';
 import type { StudySpec } from './spec';
 
@@ -55,7 +57,12 @@ interface Prepared {
 	starts: number[][];
 	fit: CurveFit;
 	problem: Problem;
+	/** how reasons are reworded in the study's own sense (reasonWording.ts) */
+	wording: ReasonContext;
 }
+
+/** methods whose knots are the data's x values (an optimum on a knot is on a data point) */
+const KNOTS_ARE_DATA = new Set(['linear', 'cubic-natural', 'cubic-not-a-knot', 'cubic-clamped', 'akima', 'akima-modified', 'pchip', 'local-quadratic', 'local-cubic', 'smoothing-spline']);
 
 const CACHE_LIMIT = 64;
 /** store a batch after this many runs or this long */
@@ -95,6 +102,17 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 	const spec = study.spec as StudySpec;
 	const fit = fitFromJSON(fitRow.fit);
 	const constraintFits = (fitRow.constraint_fits as unknown[]).map((j) => fitFromJSON(j));
+	const kinks = kinksOf(fit);
+	const measured = fit.knots.length < 3 ? 'Cinf' : (safe(() => auditSmoothness(fit, { worst: 1 }).measured) as { error?: string } | string);
+	const wording: ReasonContext = {
+		kind: spec.problem.kind,
+		bounds: spec.problem.bounds,
+		inputName: spec.dataset?.input?.name,
+		measured: typeof measured === 'string' ? measured : null,
+		kinked: kinks.length > 0,
+		dataX: KNOTS_ARE_DATA.has(fit.method) ? fit.knots : undefined,
+		method: fit.method
+	};
 	const prepared: Prepared = {
 		studyId,
 		queue: study.queue,
@@ -102,7 +120,8 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 		spec,
 		starts: unpackStarts(study.starts, study.start_count, study.n_inputs),
 		fit,
-		problem: curveProblem(fit, constraintFits, problemSpec(spec), kinksOf(fit))
+		problem: curveProblem(fit, constraintFits, problemSpec(spec), kinks),
+		wording
 	};
 	if (ctx.cache) {
 		if (ctx.cache.size >= CACHE_LIMIT) ctx.cache.delete(ctx.cache.keys().next().value!);
@@ -150,7 +169,7 @@ function runRecord(p: Prepared, fitId: string, optimizer: number, startIndex: nu
 		start_index: startIndex,
 		outcome: r.outcome,
 		at_kink: r.atKink,
-		reason: r.reason.slice(0, 500),
+		reason: studyReason(r, p.wording).slice(0, 500),
 		iterations: r.iterations,
 		evals_f: r.evaluations.f,
 		evals_grad: r.evaluations.grad,
@@ -334,6 +353,8 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 				dataMonotone: a.dataMonotone,
 				monotoneKept: a.monotoneKept,
 				spuriousExtrema: a.spuriousExtrema,
+				// data that are not monotone as a whole: is each rising or falling stretch kept?
+				stretches: a.dataMonotone ? null : monotoneStretches(fit, dataset.data[xi], dataset.data[yi]).map((t) => ({ from: t.from, to: t.to, direction: t.direction, kept: t.kept, worstAt: t.worstAt })),
 				notes: a.notes
 			};
 		});

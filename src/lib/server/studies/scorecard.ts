@@ -1,16 +1,16 @@
 /**
  * The scorecard: one row per fit × optimizer over all its runs, ranked by the
- * rule in RANK_RULE (the study page prints it). Counts and medians are
+ * verdict rule in RANK_RULE (the study page prints it; see verdict.ts). Counts and medians are
  * aggregated in PostgreSQL so a study of 100,000 runs is scored without
  * loading them.
  */
 import type { Knex } from 'knex';
 import type { Study, StudyFit } from './store';
+import { rankByVerdict, separateOptima, THRESHOLDS, VERDICT_RULE, verdict, type Verdict } from './verdict';
 
 type Db = Knex | Knex.Transaction;
 
-export const RANK_RULE =
-	'Rows are ranked by success rate (share of runs that converged; higher first), then by whether the best end point reaches the fit’s reference optimum (yes first), then by the fit’s leave-one-out RMSE (lower first), then by median evaluations (fewer first).';
+export const RANK_RULE = VERDICT_RULE;
 
 /** a best end point within this share of the fit's range of f from the reference counts as reaching it */
 export const REFERENCE_TOLERANCE = 1e-6;
@@ -37,7 +37,12 @@ export interface ScorecardRow {
 	gap: { x: number | null; f: number } | null;
 	reachesReference: boolean | null;
 	continuity: { declared: string; measured: string | null };
-	fidelity: { looRmse: number | null; overshoot: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
+	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
+	/** whole-curve monotonicity when the data are monotone, else per monotone stretch of the data */
+	monotone: Monotone;
+	/** separate places the converged runs ended (first coordinate), with the share of converged runs at each */
+	optima: { x: number; share: number }[] | null;
+	verdict: Verdict;
 }
 
 const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number.isFinite(Number(v)) ? Number(v) : null);
@@ -64,11 +69,30 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 		ORDER BY fit_id, optimizer, (outcome = 'converged') DESC, ${measure} ASC, id`,
 		kind === 'solve' ? [study.id, target ?? 0] : [study.id]
 	);
+	// converged end points in buckets of THRESHOLDS.separate × the bounds' width, merged into separate optima below
+	const [lo, hi] = study.spec.problem.bounds[0];
+	const width = Math.max((hi - lo) * THRESHOLDS.separate, Number.MIN_VALUE);
+	const buckets = await db.raw(
+		`SELECT fit_id, optimizer, floor((x[1] - ?) / ?)::float8 AS bucket, count(*)::int AS n
+		FROM study_runs WHERE study_id = ? AND outcome = 'converged' AND x[1] > '-Infinity'::float8 AND x[1] < 'Infinity'::float8
+		GROUP BY 1, 2, 3`,
+		[lo, width, study.id]
+	);
+	const bucketsOf = new Map<string, { bucket: number; n: number }[]>();
+	for (const b of buckets.rows) {
+		const k = `${b.fit_id}/${b.optimizer}`;
+		if (!bucketsOf.has(k)) bucketsOf.set(k, []);
+		bucketsOf.get(k)!.push({ bucket: Number(b.bucket), n: b.n });
+	}
 	const bestOf = new Map<string, { id: string; x: number[]; f: number; converged: boolean }>();
 	for (const b of best.rows) bestOf.set(`${b.fit_id}/${b.optimizer}`, b);
 	const fitOf = new Map(fits.map((f) => [f.id, f]));
 
-	const rows: ScorecardRow[] = stats.rows.map((s: Record<string, unknown>) => {
+	const looOf = (f: StudyFit | undefined) => (f?.fidelity && !f.fidelity.error ? num(f.fidelity.looRmse) : null);
+	const looAll = fits.map(looOf).filter((v): v is number => v !== null);
+	const bestLoo = looAll.length ? Math.min(...looAll) : null;
+
+	const rows: Omit<ScorecardRow, 'rank'>[] = stats.rows.map((s: Record<string, unknown>) => {
 		const fit = fitOf.get(s.fit_id as string)!;
 		const b = bestOf.get(`${s.fit_id}/${s.optimizer}`);
 		const runs = s.runs as number;
@@ -85,14 +109,24 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			reaches = shortfall <= REFERENCE_TOLERANCE * scale;
 		}
 		const converged = s.converged as number;
+		const fidelity: ScorecardRow['fidelity'] =
+			fit?.fidelity && !fit.fidelity.error
+				? { looRmse: num(fit.fidelity.looRmse), overshoot: num(fit.fidelity.overshoot), overshootRelative: num(fit.fidelity.overshootRelative), monotoneKept: fit.fidelity.monotoneKept ?? null, spuriousExtrema: num(fit.fidelity.spuriousExtrema) }
+				: null;
+		const monotone = monotoneOf(fit);
+		const continuity = { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.error ? null : (fit?.smoothness?.measured ?? null) };
+		const successRate = runs ? converged / runs : 0;
+		const optima = converged ? separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width) : null;
+		// the data's range of y (overshoot / overshootRelative) when the audit shows it, else the fit's own range over the bounds
+		const dataRange = fidelity?.overshoot && fidelity.overshootRelative ? fidelity.overshoot / fidelity.overshootRelative : null;
+		const fRange = dataRange ?? (fit?.reference && !fit.reference.error && fit.reference.fRange > 0 ? fit.reference.fRange : null);
 		return {
-			rank: 0,
 			fitId: s.fit_id as string,
 			method: fit?.method ?? '?',
 			optimizer: study.spec.optimizers[s.optimizer as number]?.method ?? String(s.optimizer),
 			optimizerIndex: s.optimizer as number,
 			runs,
-			successRate: runs ? converged / runs : 0,
+			successRate,
 			medianIterations: num(s.median_iterations),
 			medianEvaluations: num(s.median_evaluations),
 			best: b ? { x: b.x, f: b.f, runId: Number(b.id), converged: b.converged } : null,
@@ -102,21 +136,38 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			reference: ref ? { x: ref.x, f: ref.f } : null,
 			gap,
 			reachesReference: reaches,
-			continuity: { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.measured ?? null },
-			fidelity: fit?.fidelity && !fit.fidelity.error ? { looRmse: num(fit.fidelity.looRmse), overshoot: num(fit.fidelity.overshoot), monotoneKept: fit.fidelity.monotoneKept ?? null, spuriousExtrema: num(fit.fidelity.spuriousExtrema) } : null
+			continuity,
+			fidelity,
+			monotone,
+			optima,
+			verdict: verdict({ kind, successRate, runs, atKink: s.at_kink as number, reachesReference: reaches, continuity, fidelity, optima, fRange, bestLooRmse: bestLoo, monotoneBroken: brokenText(monotone), roots: fit?.reference?.roots?.length ?? null })
 		};
 	});
 	return rank(rows);
 }
 
-/** Sort by the stated rule and number the rows. */
-export function rank(rows: ScorecardRow[]): ScorecardRow[] {
-	const key = (r: ScorecardRow) => [-r.successRate, r.reachesReference ? 0 : 1, r.fidelity?.looRmse ?? Infinity, r.medianEvaluations ?? Infinity];
-	const sorted = [...rows].sort((a, b) => {
-		const ka = key(a);
-		const kb = key(b);
-		for (let i = 0; i < ka.length; i++) if (ka[i] !== kb[i]) return ka[i] < kb[i] ? -1 : 1;
-		return a.method.localeCompare(b.method) || a.optimizerIndex - b.optimizerIndex;
-	});
-	return sorted.map((r, i) => ({ ...r, rank: i + 1 }));
+export type Monotone =
+	| { applies: 'whole'; direction: string; kept: boolean }
+	| { applies: 'stretches'; total: number; kept: number; broken: { from: number; to: number }[] }
+	| { applies: 'no'; reason: string }
+	| null;
+
+/** Monotonicity as the scorecard states it: never "kept" where the data are not monotone. */
+export function monotoneOf(fit: Pick<StudyFit, 'fidelity'> | undefined): Monotone {
+	const f = fit?.fidelity;
+	if (!f || f.error) return null;
+	if (f.dataMonotone) return { applies: 'whole', direction: f.dataMonotone, kept: f.monotoneKept !== false };
+	if (f.stretches && f.stretches.length) return { applies: 'stretches', total: f.stretches.length, kept: f.stretches.filter((t) => t.kept).length, broken: f.stretches.filter((t) => !t.kept).map((t) => ({ from: t.from, to: t.to })) };
+	return { applies: 'no', reason: 'data not monotone' };
+}
+
+function brokenText(m: Monotone): string | null {
+	if (m?.applies === 'whole' && !m.kept) return `not monotone where the data are ${m.direction}`;
+	if (m?.applies === 'stretches' && m.kept < m.total) return `breaks ${m.total - m.kept} of ${m.total} monotone stretches of the data`;
+	return null;
+}
+
+/** Sort by the stated rule (verdict first) and number the rows. */
+export function rank(rows: Omit<ScorecardRow, 'rank'>[]): ScorecardRow[] {
+	return rankByVerdict(rows);
 }

@@ -117,7 +117,7 @@ export interface StudyFit {
 	options: Record<string, unknown>;
 	continuity: string;
 	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string };
-	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; monotoneKept?: boolean; dataMonotone?: string | null; spuriousExtrema?: number; error?: string };
+	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; overshootRelative?: number; monotoneKept?: boolean; dataMonotone?: string | null; stretches?: { from: number; to: number; direction: string; kept: boolean; worstAt: number | null }[] | null; spuriousExtrema?: number; error?: string };
 	reference: null | { kind: string; x: number[] | null; f: number | null; roots?: number[]; fRange: number; note?: string; error?: string };
 	samples?: { x: number[]; f: (number | null)[] } | null;
 }

@@ -1,4 +1,4 @@
-import { error, redirect } from '@sveltejs/kit';
+import { error, fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { CAUTION } from '$lib/caution';
 import { roleAtLeast } from '$lib/server/access';
@@ -39,10 +39,12 @@ export const actions = {
 	},
 	pick: async ({ request, locals, params }) => {
 		const { study, access } = await open(locals, params, 'editor');
-		return formAction(request, pickSchema, async (input) => {
+		const result = await formAction(request, pickSchema, async (input) => {
 			await pickFit(db(), study, access.user.id, input);
 			return { picked: true as const };
 		});
+		// tell the page which form was refused, so the problem shows beside that form's field
+		return 'status' in result ? fail(result.status, { ...result.data, action: 'pick' as const }) : result;
 	},
 	share: async ({ request, locals, params, url }) => {
 		const { study, access } = await open(locals, params, 'owner');
