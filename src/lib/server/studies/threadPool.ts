@@ -90,17 +90,21 @@ export class ThreadPool {
 		const q = this.queue.shift();
 		if (!q) return;
 		slot.busy = q;
-		q.timer = setTimeout(() => {
-			// a task past its time: the thread may be stuck; replace it
-			slot.dead = true;
-			void slot.worker.terminate();
-			if (slot.busy === q) {
-				slot.busy = null;
-				this.lost++;
-				q.reject(new Error(`timed out after ${Math.round(q.timeoutMs / 1000)} s`));
-			}
-		}, q.timeoutMs);
 		slot.worker.postMessage(q.task);
+		// the time budget counts from when the thread has loaded its code, not from a fresh thread's start-up
+		void slot.ready.then(() => {
+			if (slot.busy !== q || slot.dead) return;
+			q.timer = setTimeout(() => {
+				// a task past its time: the thread may be stuck; replace it
+				slot.dead = true;
+				void slot.worker.terminate();
+				if (slot.busy === q) {
+					slot.busy = null;
+					this.lost++;
+					q.reject(new Error(`timed out after ${Math.round(q.timeoutMs / 1000)} s`));
+				}
+			}, q.timeoutMs);
+		});
 	}
 
 	/** Terminate one thread (its task is rejected, a new thread replaces it). */
