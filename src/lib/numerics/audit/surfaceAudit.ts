@@ -37,6 +37,8 @@ export interface SurfaceSmoothnessAudit {
 	overall: Continuity;
 	/** up to `worst` lines per input, largest slope jump first (then curvature jump) */
 	worstLines: LineJump[][];
+	/** per input, the grid values of every interior line where the slope jumps (kinks), sorted */
+	kinkLines: number[][];
 }
 
 function samplesAlong(axis: Float64Array): number[] {
@@ -55,6 +57,7 @@ export function auditSurfaceSmoothness(fit: TensorGrid, worst = 3): SurfaceSmoot
 	fScale = Math.max(fScale, 1e-300);
 	const perInput: Continuity[] = [];
 	const worstLines: LineJump[][] = [];
+	const kinkLines: number[][] = [];
 	for (let k = 0; k < d; k++) {
 		const a = fit.axes[k];
 		const others = fit.axes.map((ax, j) => (j === k ? [0] : samplesAlong(ax)));
@@ -68,6 +71,7 @@ export function auditSurfaceSmoothness(fit: TensorGrid, worst = 3): SurfaceSmoot
 			combos.splice(0, combos.length, ...next);
 		}
 		const jumps: LineJump[] = [];
+		const kinks: number[] = [];
 		let cls: Continuity = 'C2';
 		for (let i = 1; i < a.length - 1; i++) {
 			const hmin = Math.min(a[i] - a[i - 1], a[i + 1] - a[i]);
@@ -87,16 +91,20 @@ export function auditSurfaceSmoothness(fit: TensorGrid, worst = 3): SurfaceSmoot
 			jumps.push({ input: k, line: i, at: a[i], slopeJump: s1, curvatureJump: s2 });
 			// thresholds: a slope of the data's size per cell width, times 1e-6
 			const h = a[a.length - 1] - a[0];
-			if (s1 > 1e-6 * (fScale / h)) cls = 'C0';
+			if (s1 > 1e-6 * (fScale / h)) {
+				cls = 'C0';
+				kinks.push(a[i]);
+			}
 			else if (cls === 'C2' && s2 > 1e-4 * (fScale / (hmin * h))) cls = 'C1';
 		}
 		perInput.push(cls);
+		kinkLines.push(kinks);
 		jumps.sort((p, q) => q.slopeJump - p.slopeJump || q.curvatureJump - p.curvatureJump);
 		worstLines.push(jumps.slice(0, worst));
 	}
 	const order: Continuity[] = ['C0', 'C1', 'C2', 'Cinf'];
 	const overall = perInput.reduce((w, c) => (order.indexOf(c) < order.indexOf(w) ? c : w), 'C2' as Continuity);
-	return { perInput, overall, worstLines };
+	return { perInput, overall, worstLines, kinkLines };
 }
 
 export interface SurfaceFidelityAudit {
