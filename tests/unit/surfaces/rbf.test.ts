@@ -151,6 +151,17 @@ describe('RBF fits: exactness, Hessians, leave-one-out', () => {
 		// points on the box's edge change the scaling when left out and are not compared; most are interior
 		expect(checked).toBeGreaterThanOrEqual(9);
 	});
+	it("without leave-one-out, Hager's estimate (W. W. Hager, 1984) bounds the exact 1-norm condition number from below and is within 10×", () => {
+		const s = SETS['3-D'];
+		for (const m of ['rbf-thin-plate', 'rbf-gaussian'] as const) {
+			const exact = fitScatter(m, s.x, s.y, { epsilon: 3 });
+			const est = fitScatter(m, s.x, s.y, { epsilon: 3, leaveOneOut: false });
+			expect(est.stats.looResiduals).toBeUndefined();
+			expect(est.stats.condition!).toBeLessThanOrEqual(exact.stats.condition! * (1 + 1e-9));
+			expect(est.stats.condition!).toBeGreaterThan(exact.stats.condition! / 10);
+			for (const p of s.probes) expectClose(est.value(p), exact.value(p), 1e-9);
+		}
+	});
 	it('warns with a condition estimate when the system is ill-conditioned', () => {
 		const s = SETS['2-D'];
 		const fit = fitScatter('rbf-gaussian', s.x, s.y, { epsilon: 0.05 });

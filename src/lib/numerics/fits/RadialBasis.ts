@@ -29,6 +29,30 @@ import type { Continuity } from './types';
 export const RBF_MAX_INPUTS = 6;
 /** condition number above which a warning note is added (common practice, no source: ~1/√machine-ε) */
 export const RBF_CONDITION_WARNING = 1e8;
+/** above this many points leave-one-out is off by default (it needs the full inverse, n³ work) */
+export const RBF_LOO_LIMIT = 1000;
+
+/**
+ * ‖M⁻¹‖₁ estimated by Hager's method (W. W. Hager, 1984, "Condition estimates",
+ * SIAM J. Sci. Stat. Comput. 5(2):311–316) from a few solves with the LU
+ * factors; M is symmetric, so the transposed solves are plain solves.
+ */
+function hagerInverseNorm(lu: LuDecomposition, N: number): number {
+	let x = new Array<number>(N).fill(1 / N);
+	let est = 0;
+	for (let iter = 0; iter < 5; iter++) {
+		const y = lu.solve(Matrix.columnVector(x)).getColumn(0);
+		const norm = y.reduce((p, v) => p + Math.abs(v), 0);
+		if (iter > 0 && norm <= est) break;
+		est = norm;
+		const z = lu.solve(Matrix.columnVector(y.map((v) => (v >= 0 ? 1 : -1)))).getColumn(0);
+		let j = 0;
+		for (let i = 1; i < N; i++) if (Math.abs(z[i]) > Math.abs(z[j])) j = i;
+		x = new Array<number>(N).fill(0);
+		x[j] = 1;
+	}
+	return est;
+}
 
 type Kernel = 'thin-plate' | 'multiquadric' | 'gaussian';
 
@@ -164,46 +188,58 @@ export class RadialBasis implements SurfaceFit {
 		if (lu.isSingular()) {
 			throw new FitError('singular', `${method}: the system is singular (points on a ${tailSize > 1 ? 'hyperplane the linear tail cannot separate' : 'degenerate set'}); add points or lower the tail degree`);
 		}
-		const inv = lu.solve(Matrix.eye(N, N));
 		const b = new Float64Array(N);
 		for (let i = 0; i < n; i++) b[i] = yIn[i];
-		const z = new Float64Array(N);
-		let invDiagOk = true;
-		for (let i = 0; i < N; i++) {
-			let s = 0;
-			for (let j = 0; j < n; j++) s += inv.get(i, j) * b[j];
-			z[i] = s;
-		}
-		this.coefficients = z.slice(0, n);
-		this.tail = z.slice(n);
-		// 1-norm condition number ‖M‖₁‖M⁻¹‖₁ (exact, since the inverse is at hand)
+		// 1-norm of M (M is symmetric: columns = rows)
 		let nA = 0;
-		let nI = 0;
 		for (let j = 0; j < N; j++) {
 			let sa = 0;
-			let si = 0;
-			for (let i = 0; i < N; i++) {
-				sa += Math.abs(M.get(i, j));
-				si += Math.abs(inv.get(i, j));
-			}
+			for (let i = 0; i < N; i++) sa += Math.abs(M.get(i, j));
 			if (sa > nA) nA = sa;
-			if (si > nI) nI = si;
 		}
-		const condition = nA * nI;
+		let condition: number;
+		let loo: Float64Array | undefined;
+		let ss = 0;
+		const wantLoo = options?.leaveOneOut ?? n <= RBF_LOO_LIMIT;
+		if (wantLoo) {
+			// the inverse gives the exact 1-norm condition number and Rippa's leave-one-out residuals
+			const inv = lu.solve(Matrix.eye(N, N));
+			const z = new Float64Array(N);
+			for (let i = 0; i < N; i++) {
+				let t = 0;
+				for (let j = 0; j < n; j++) t += inv.get(i, j) * b[j];
+				z[i] = t;
+			}
+			this.coefficients = z.slice(0, n);
+			this.tail = z.slice(n);
+			let nI = 0;
+			for (let j = 0; j < N; j++) {
+				let si = 0;
+				for (let i = 0; i < N; i++) si += Math.abs(inv.get(i, j));
+				if (si > nI) nI = si;
+			}
+			condition = nA * nI;
+			loo = new Float64Array(n);
+			let invDiagOk = true;
+			for (let i = 0; i < n; i++) {
+				const dii = inv.get(i, i);
+				if (dii === 0) invDiagOk = false;
+				loo[i] = this.coefficients[i] / dii;
+				ss += loo[i] * loo[i];
+			}
+			if (!invDiagOk) notes.push('leave-one-out: undefined for some points (the rest of the data cannot fit without them)');
+		} else {
+			const z = Float64Array.from(lu.solve(Matrix.columnVector(Array.from(b))).getColumn(0));
+			this.coefficients = z.slice(0, n);
+			this.tail = z.slice(n);
+			condition = nA * hagerInverseNorm(lu, N);
+			notes.push(`leave-one-out not computed (${n} points; above ${RBF_LOO_LIMIT} it needs the full inverse)`);
+		}
 		if (!(condition < RBF_CONDITION_WARNING)) {
 			notes.push(`ill-conditioned: condition number ≈ ${condition.toExponential(2)} (above ${RBF_CONDITION_WARNING.toExponential(0)}); values may carry large rounding errors — try smoothing > 0 or a different epsilon`);
 		}
-		const loo = new Float64Array(n);
-		let ss = 0;
-		for (let i = 0; i < n; i++) {
-			const dii = inv.get(i, i);
-			if (dii === 0) invDiagOk = false;
-			loo[i] = this.coefficients[i] / dii;
-			ss += loo[i] * loo[i];
-		}
-		if (!invDiagOk) notes.push('leave-one-out: undefined for some points (the rest of the data cannot fit without them)');
 		if (this.kind === 'thin-plate') notes.push('thin-plate: C1 at the data points, where the Hessian is not defined (that point’s curvature term is left out)');
-		this.stats = Object.freeze({ condition, looResiduals: loo, looRms: Math.sqrt(ss / n) });
+		this.stats = Object.freeze(loo ? { condition, looResiduals: loo, looRms: Math.sqrt(ss / n) } : { condition });
 		this.continuity = this.kind === 'thin-plate' ? 'C1' : 'Cinf';
 		this.axisContinuity = Object.freeze(new Array<Continuity>(d).fill(this.continuity));
 		this.hessian = this.kind === 'thin-plate' ? 'piecewise' : 'exact';

@@ -23,4 +23,4 @@ export type { GridMethod, ScatterMethod, SurfaceMethod, SurfaceFit, SurfaceFitOp
 export { TensorGrid, GRID_MAX_INPUTS, fillHermiteSlots, type LineSlopeRule } from './TensorGrid';
 export { prepareGrid, type PreparedGrid } from './prepareGrid';
 export { fitGrid, gridMethods, isGridMethod, gridLinear, gridCubicNatural, gridCubicNotAKnot, gridAkima, gridPchip, type GridBuilder, type GridMethodInfo } from './fitGrid';
-export { RadialBasis, fitScatter, isScatterMethod, RBF_MAX_INPUTS, RBF_CONDITION_WARNING } from './RadialBasis';
+export { RadialBasis, fitScatter, isScatterMethod, RBF_MAX_INPUTS, RBF_CONDITION_WARNING, RBF_LOO_LIMIT } from './RadialBasis';

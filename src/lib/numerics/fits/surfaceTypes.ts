@@ -44,6 +44,8 @@ export interface SurfaceFitOptions {
 	epsilon?: number;
 	/** rbf-*: degree of the polynomial tail: −1 (none), 0 or 1 (default 1) */
 	degree?: number;
+	/** rbf-*: compute Rippa's leave-one-out residuals and the exact condition number (needs the inverse); default: up to 1000 points */
+	leaveOneOut?: boolean;
 }
 
 export interface SurfaceStats {
