@@ -49,7 +49,7 @@ describe.each(HOCK_SCHITTKOWSKI.map((p) => [p.name, p] as const))('%s', (name, p
 		const m = r.multipliers;
 		expect(m).not.toBeNull();
 		p.multipliers?.constraints?.forEach((v, i) => {
-			if (v !== null) expectClose(Math.abs(m!.constraints[i]), v, 1e-6, `${name} |λ${i}| (${p.source})`);
+			if (v !== null) expectClose(m!.constraints[i], v, 1e-6, `${name} λ${i} with its sign, L = f + Σλc (${p.source})`);
 		});
 		p.multipliers?.lower?.forEach((v, i) => {
 			if (v !== null) expectClose(m!.lower[i], v, 1e-6, `${name} bound multiplier x${i + 1} (${p.source})`);

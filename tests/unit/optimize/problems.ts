@@ -23,7 +23,7 @@ export interface ReferenceProblem {
 	/** published optimum */
 	xStar: number[];
 	fStar: number;
-	/** where the source gives them: |multiplier| per constraint / per bound */
+	/** where the source gives them: the multiplier per constraint, signed for L = f + Σλc / per bound */
 	multipliers?: { constraints?: (number | null)[]; lower?: (number | null)[] };
 	source: string;
 }

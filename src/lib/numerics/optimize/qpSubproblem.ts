@@ -132,6 +132,18 @@ export function solveQpSubproblem(
 		return empty;
 	}
 	if (res.message) return { ...empty, status: /inconsistent/.test(res.message) ? 'infeasible' : 'failed' };
+	// quadprog negates an equality row in place (Amat column and bvec entry) when
+	// the current point lies on its positive side, and then reports the multiplier
+	// of the negated row (qpgen2's start-up and add-constraint steps). Compare each
+	// equality column with the one we built: where the net effect is a flip, the
+	// reported multiplier has the opposite sign of the row we stated.
+	const flipped = (j: number): boolean => {
+		const a = cols[j].a;
+		let at = -1;
+		for (let i = 0; i < nv; i++) if (a[i] !== 0 && (at < 0 || Math.abs(a[i]) > Math.abs(a[at]))) at = i;
+		if (at >= 0) return Math.sign(Amat[at + 1][j + 1]) !== Math.sign(a[at]);
+		return cols[j].b !== 0 && Math.sign(bvec[j + 1]) !== Math.sign(cols[j].b);
+	};
 	const sol = res.solution;
 	const d = new Array<number>(n);
 	for (let i = 0; i < n; i++) d[i] = sol[i + 1];
@@ -142,8 +154,9 @@ export function solveQpSubproblem(
 	const zLo = new Array<number>(n).fill(0);
 	const zHi = new Array<number>(n).fill(0);
 	for (let j = 0; j < q; j++) {
-		const u = res.Lagrangian[j + 1] ?? 0;
+		let u = res.Lagrangian[j + 1] ?? 0;
 		if (!u) continue;
+		if (j < meq && flipped(j)) u = -u;
 		const { type, index } = cols[j].tag;
 		// quadprog's stationarity: Dd − dvec = Σ uⱼaⱼ, i.e. Bd + g − Σ uⱼaⱼ = 0
 		if (type === 'eq') lambda[index] -= u;
