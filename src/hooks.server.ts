@@ -4,10 +4,13 @@ import * as apiTokens from '$lib/server/apiTokens';
 import { errorBody } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
+import { startOffloadThreads } from '$lib/server/offload/pool';
 import { startStudyWorkers } from '$lib/server/studies/app';
 
 export const init: ServerInit = async () => {
 	await startCatcher();
+	// fit previews, a launch's fit building and upload parsing run on these threads; not awaited
+	void startOffloadThreads().catch(() => {});
 	// the job queue and study worker threads (KINKLESS_WORKERS=0: none in this process); not awaited
 	void startStudyWorkers().catch(() => {});
 };
@@ -22,7 +25,12 @@ export const handle: Handle = async ({ event, resolve }) => {
 	const isApi = event.url.pathname.startsWith('/api/');
 
 	const authz = event.request.headers.get('authorization');
-	if (authz?.toLowerCase().startsWith('bearer ')) {
+	const bearer = authz?.toLowerCase().startsWith('bearer ') ?? false;
+	// API tokens are for /api/ only. Pages and their form actions (settings, token
+	// creation, account changes) need a signed-in session, so a leaked token cannot
+	// mint more tokens or change the account.
+	if (bearer && !isApi) return new Response('API tokens work only under /api/; sign in to use the pages', { status: 403, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+	if (bearer && authz) {
 		const user = await apiTokens.authenticate(db(), authz.slice(7).trim());
 		if (!user) return json(errorBody(401, 'the API token is unknown or revoked', 'bad-token'), { status: 401 });
 		event.locals.user = { id: user.id, email: user.email, name: user.name };

@@ -2,28 +2,15 @@
 // f′ and f″, its smoothness audit and its fidelity, for the dataset page.
 import { z } from 'zod';
 import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview } from '$lib/fitMethods';
-import { auditFidelity } from '$lib/numerics/audit/fidelity';
-import { auditSmoothness } from '$lib/numerics/audit/smoothness';
-import { FitError, fitCurve, type CurveFitOptions } from '$lib/numerics/fits';
+import type { CurveFitOptions, FitErrorCode } from '$lib/numerics/fits';
 import { fail4xx } from './api';
+import { formatBudget, PREVIEW_BUDGET_MS } from './offload/limits';
+import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import type { PreviewResult } from './offload/fitWork';
 import type { DatasetMeta } from './datasetStore';
 
-// Evenly spaced samples across the domain; the knots are added when there are
-// not too many, so f′ and f″ break exactly where the fit does.
-const SAMPLES = 400;
-const MAX_KNOTS_SAMPLED = 2000;
 const MAX_AT = 1000;
-const WORST_LISTED = 25;
 const MAX_DEGREE = 30;
-// Past this many rows the fidelity audit samples: fewer leave-one-out refits
-// (each costs a whole fit) and fewer probes per interval, so a preview of a
-// 100,000-row table answers in about a second rather than tens.
-const LARGE = 5000;
-
-function fidelityOptions(n: number) {
-	if (n <= LARGE) return {};
-	return { looMaxPoints: Math.max(10, Math.min(200, Math.round(1e6 / n))), samplesPerInterval: 2, derivativePoints: 100 };
-}
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
 
@@ -74,7 +61,7 @@ export const fitPreviewSchema = z
 export type FitPreviewRequest = z.infer<typeof fitPreviewSchema>;
 
 // Which request field a fitting error is about.
-const FIELD_OF: Partial<Record<FitError['code'], string>> = {
+const FIELD_OF: Partial<Record<FitErrorCode, string>> = {
 	'degree-too-high': 'options.degree',
 	'missing-slopes': 'options.slopes',
 	'bad-width': 'options.width',
@@ -83,26 +70,8 @@ const FIELD_OF: Partial<Record<FitError['code'], string>> = {
 	singular: 'options.degree'
 };
 
-function fitFailure(e: FitError): never {
-	const field = FIELD_OF[e.code] ?? (e.code === 'bad-option' ? 'options' : 'method');
-	fail4xx(422, `${field}: ${e.message}`, 'fit-failed', [{ field, problem: e.message }]);
-}
-
-const nullIfNaN = (v: number): number | null => (Number.isFinite(v) ? v : null);
-
-/** Sorted, distinct sample points: an even grid over the domain plus the knots. */
-function samplePoints(lo: number, hi: number, knots: Float64Array): Float64Array {
-	const pts: number[] = [];
-	for (let i = 0; i <= SAMPLES; i++) pts.push(i === SAMPLES ? hi : lo + ((hi - lo) * i) / SAMPLES);
-	if (knots.length <= MAX_KNOTS_SAMPLED) for (const k of knots) if (k >= lo && k <= hi) pts.push(k);
-	const sorted = Float64Array.from(pts).sort();
-	let m = 0;
-	for (let i = 0; i < sorted.length; i++) if (i === 0 || sorted[i] !== sorted[m - 1]) sorted[m++] = sorted[i];
-	return sorted.slice(0, m);
-}
-
-/** Fit, sample and audit one output of a curve dataset. Throws 422 naming the field at fault. */
-export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): FitPreview {
+/** Fit, sample and audit one output of a curve dataset on a fit thread. Throws 422 naming the field or limit at fault. */
+export async function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): Promise<FitPreview> {
 	const { columns, data } = dataset;
 	const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
 	const j = columns.findIndex((c) => c.name === request.output && c.role === 'output');
@@ -117,8 +86,6 @@ export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, requ
 		]);
 	}
 	const i = columns.findIndex((c) => c.role === 'input');
-	const x = data[i];
-	const y = data[j];
 	const options: CurveFitOptions = {};
 	const o = request.options ?? {};
 	if (o.extrapolation) options.extrapolation = o.extrapolation;
@@ -127,50 +94,23 @@ export function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, requ
 	if (o.width !== undefined) options.width = o.width;
 	if (o.slopes) options.slopes = o.slopes;
 
+	let result: PreviewResult;
 	try {
-		const fit = fitCurve(request.method, x, y, options);
-		const smooth = auditSmoothness(fit, { worst: WORST_LISTED });
-		const fid = auditFidelity(fit, x, y, fidelityOptions(x.length));
-		const [lo, hi] = fit.domain;
-		const sx = samplePoints(lo, hi, fit.knots);
-		const s = fit.evaluateMany(sx);
-		const preview: FitPreview = {
-			method: fit.method,
-			continuity: {
-				declared: smooth.declared,
-				measured: smooth.measured,
-				worst: smooth.worst.map((w) => ({ x: w.x, jumpD1: w.jumpD1, jumpD2: w.jumpD2 }))
-			},
-			fidelity: {
-				looRmse: nullIfNaN(fid.looRmse),
-				looMax: nullIfNaN(fid.looMax),
-				overshoot: fid.overshoot,
-				monotoneKept: fid.monotoneKept,
-				spuriousExtrema: fid.spuriousExtrema
-			},
-			samples: { x: Array.from(sx), f: Array.from(s.f), df: Array.from(s.df), d2f: Array.from(s.d2f) }
-		};
-		if (request.at) {
-			const at = { x: request.at, f: [] as number[], df: [] as number[], d2f: [] as number[] };
-			request.at.forEach((xv, k) => {
-				let jet;
-				try {
-					jet = fit.evaluate(xv);
-				} catch (e) {
-					if (e instanceof FitError) {
-						fail4xx(422, `at[${k}]: ${e.message}`, 'outside-domain', [{ field: `at.${k}`, problem: e.message }]);
-					}
-					throw e;
-				}
-				at.f.push(jet.f);
-				at.df.push(jet.df);
-				at.d2f.push(jet.d2f);
-			});
-			preview.at = at;
-		}
-		return preview;
+		result = await runOnFitThread<PreviewResult>({ kind: 'preview', x: data[i], y: data[j], method: request.method, options, at: request.at }, PREVIEW_BUDGET_MS);
 	} catch (e) {
-		if (e instanceof FitError) fitFailure(e);
+		if (e instanceof FitOverBudget) {
+			const rows = data[i].length.toLocaleString('en-US');
+			fail4xx(422, `the ${request.method} preview of ${rows} rows ${e.message} (the limit for one fit preview); thin the table or choose a cheaper method`, 'over-budget', [
+				{ field: 'method', problem: `over the ${formatBudget(PREVIEW_BUDGET_MS)} preview budget` }
+			]);
+		}
+		if (e instanceof FitBusy) fail4xx(503, e.message, 'busy');
 		throw e;
 	}
+	if (result.ok) return result.preview;
+	const problem = result.problem;
+	if (problem.kind === 'size') fail4xx(422, `method: ${problem.message}`, 'too-large', [{ field: 'method', problem: problem.message }]);
+	if (problem.kind === 'at') fail4xx(422, `at[${problem.index}]: ${problem.message}`, 'outside-domain', [{ field: `at.${problem.index}`, problem: problem.message }]);
+	const field = FIELD_OF[problem.code] ?? (problem.code === 'bad-option' ? 'options' : 'method');
+	fail4xx(422, `${field}: ${problem.message}`, 'fit-failed', [{ field, problem: problem.message }]);
 }

@@ -2,13 +2,13 @@ import { redirect } from '@sveltejs/kit';
 import { signUpSchema } from '$lib/schemas';
 import { signUp, startSession } from '$lib/server/accounts';
 import { formAction } from '$lib/server/forms';
+import { safeNext } from '$lib/server/safeNext';
 import type { Actions, PageServerLoad } from './$types';
 
-const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
 
 export const load = (({ locals, url }) => {
 	if (locals.user) redirect(303, '/');
-	return { next: safeNext(url.searchParams.get('next')), email: url.searchParams.get('email') ?? '' };
+	return { next: safeNext(url.searchParams.get('next'), url.origin), email: url.searchParams.get('email') ?? '' };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -18,7 +18,7 @@ export const actions = {
 			await startSession(event.cookies, user.id, event.locals.session?.id);
 			return { ok: true as const };
 		});
-		if ('ok' in result) redirect(303, safeNext(event.url.searchParams.get('next')));
+		if ('ok' in result) redirect(303, safeNext(event.url.searchParams.get('next'), event.url.origin));
 		return result;
 	}
 } satisfies Actions;

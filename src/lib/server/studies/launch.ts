@@ -6,19 +6,19 @@
  * Relative imports only (the benchmark and tests load this through tsx).
  */
 import type { Knex } from 'knex';
-import { FitError } from '../../numerics/fits/FitError';
-import { fitCurve } from '../../numerics/fits/fitCurve';
+import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { makeStarts } from '../../numerics/optimize/starts';
 import { getWithData } from '../datasetStore';
+import { buildFits, type BuildResult, type BuildTask } from '../offload/fitWork';
 import { insertJobs, queueName } from './boss';
 import { auditJob, runsJob, startsPerJob, type StudyJob } from './jobs';
 import { packStarts } from './runner';
 import { DEFAULT_BUDGETS, MAX_RUNS, type StudyInput } from './schema';
 import type { StudySpec } from './spec';
 
-/** Largest curve a study takes: every fit is built in the request that launches it. */
+/** Largest curve a study takes: every fit is built when the study is launched. */
 export const MAX_STUDY_ROWS = 20_000;
 
 export type Detail = { field: string; problem: string };
@@ -46,6 +46,8 @@ export interface LaunchArgs {
 	queue?: string;
 	/** false: store the study but return its jobs instead of queueing them (the demo seed runs them itself) */
 	enqueue?: boolean;
+	/** builds the fits, on a fit thread in the app (default: in this thread, for the seed and scripts) */
+	buildFits?: (task: BuildTask) => Promise<BuildResult>;
 }
 
 export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[] }> {
@@ -81,20 +83,25 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 	const bounds: [number, number][] = p.bounds ? p.bounds.map(([lo, hi]) => [lo ?? dataLo, hi ?? dataHi]) : [[dataLo, dataHi]];
 	if (!(bounds[0][0] < bounds[0][1])) reject('problem.bounds.0', `bounds [${fmt(bounds[0][0])}, ${fmt(bounds[0][1])}]: the lower bound must be below the upper bound`);
 
-	// Every fit (objective and constraint outputs) is built now: bad options and too-small data are the caller's to fix.
-	const built: { fit: CurveFit; constraintFits: CurveFit[] }[] = input.fits.map((spec, i) => {
-		const options = (spec.options ?? {}) as CurveFitOptions;
-		const build = (column: string) => {
-			try {
-				return fitCurve(spec.method as CurveMethod, x, ds.data[columnOf(column)], options);
-			} catch (e) {
-				if (e instanceof FitError) return reject(`fits.${i}`, `${spec.method} on "${column}": ${e.message}`);
-				throw e;
-			}
-		};
-		const fit = build(input.output);
-		const constraintFits = constraints.map((c) => build(c.output));
-		for (const f of [fit, ...constraintFits]) {
+	// Every fit (objective and constraint outputs) is built now, on a fit thread
+	// when the caller gives one: bad options and too-small data are the caller's to fix.
+	const outputsNeeded = [input.output, ...constraints.map((c) => c.output)];
+	const task: BuildTask = {
+		kind: 'build',
+		x,
+		columns: Object.fromEntries(outputsNeeded.map((o) => [o, ds.data[columnOf(o)]])),
+		fits: input.fits.map((spec) => ({ method: spec.method as CurveMethod, options: (spec.options ?? {}) as CurveFitOptions, outputs: outputsNeeded }))
+	};
+	const result = await (args.buildFits ?? ((t: BuildTask) => Promise.resolve(buildFits(t))))(task);
+	if (!result.ok) {
+		const spec = input.fits[result.index];
+		reject(`fits.${result.index}`, `${spec.method} on "${result.output}": ${result.problem.message}`);
+	}
+	const files = (result as Extract<BuildResult, { ok: true }>).fits;
+	const built: { fit: CurveFit; fitFile: string; constraintFiles: string[] }[] = input.fits.map((spec, i) => {
+		const [fitFile, ...constraintFiles] = files[i];
+		const fit = fitFromJSON(fitFile);
+		for (const f of [fit, ...constraintFiles.map((c) => fitFromJSON(c))]) {
 			const [lo, hi] = bounds[0];
 			if (f.extrapolation === 'refuse' && (lo < f.domain[0] || hi > f.domain[1])) {
 				reject(
@@ -103,7 +110,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 				);
 			}
 		}
-		return { fit, constraintFits };
+		return { fit, fitFile, constraintFiles };
 	});
 
 	input.optimizers.forEach((o, i) => {
@@ -175,8 +182,8 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 					method: f.method,
 					options: JSON.stringify(f.options ?? {}),
 					continuity: built[i].fit.continuity,
-					fit: JSON.stringify(built[i].fit.toJSON()),
-					constraint_fits: JSON.stringify(built[i].constraintFits.map((c) => c.toJSON()))
+					fit: built[i].fitFile,
+					constraint_fits: `[${built[i].constraintFiles.join(',')}]`
 				}))
 			)
 			.returning(['id', 'position']);

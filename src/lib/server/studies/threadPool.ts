@@ -21,7 +21,8 @@ export class ThreadPool {
 		private readonly script: string | URL,
 		size: number,
 		private readonly workerData: unknown = undefined,
-		private readonly log: (msg: string) => void = (m) => console.error(m)
+		private readonly log: (msg: string) => void = (m) => console.error(m),
+		private readonly resourceLimits: import('node:worker_threads').ResourceLimits | undefined = undefined
 	) {
 		for (let i = 0; i < size; i++) this.slots.push(this.spawn());
 	}
@@ -36,7 +37,7 @@ export class ThreadPool {
 	}
 
 	private spawn(): Slot {
-		const worker = new Worker(this.script, { workerData: this.workerData });
+		const worker = new Worker(this.script, { workerData: this.workerData, ...(this.resourceLimits ? { resourceLimits: this.resourceLimits } : {}) });
 		let markReady: () => void = () => {};
 		const slot: Slot = { worker, busy: null, ready: new Promise<void>((r) => (markReady = r)), dead: false };
 		worker.on('message', (m: { ready?: true; ok?: boolean; result?: unknown; error?: string }) => {
@@ -90,17 +91,21 @@ export class ThreadPool {
 		const q = this.queue.shift();
 		if (!q) return;
 		slot.busy = q;
-		q.timer = setTimeout(() => {
-			// a task past its time: the thread may be stuck; replace it
-			slot.dead = true;
-			void slot.worker.terminate();
-			if (slot.busy === q) {
-				slot.busy = null;
-				this.lost++;
-				q.reject(new Error(`timed out after ${Math.round(q.timeoutMs / 1000)} s`));
-			}
-		}, q.timeoutMs);
 		slot.worker.postMessage(q.task);
+		// the time budget counts from when the thread has loaded its code, not from a fresh thread's start-up
+		void slot.ready.then(() => {
+			if (slot.busy !== q || slot.dead) return;
+			q.timer = setTimeout(() => {
+				// a task past its time: the thread may be stuck; replace it
+				slot.dead = true;
+				void slot.worker.terminate();
+				if (slot.busy === q) {
+					slot.busy = null;
+					this.lost++;
+					q.reject(new Error(`timed out after ${Math.round(q.timeoutMs / 1000)} s`));
+				}
+			}, q.timeoutMs);
+		});
 	}
 
 	/** Terminate one thread (its task is rejected, a new thread replaces it). */

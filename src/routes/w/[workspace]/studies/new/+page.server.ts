@@ -3,6 +3,7 @@ import { curveMethods } from '$lib/numerics/fits';
 import { workspaceAccess } from '$lib/server/access';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
+import { buildFitsOnThread } from '$lib/server/offload/pool';
 import * as datasetStore from '$lib/server/datasetStore';
 import { formAction } from '$lib/server/forms';
 import { queueReady } from '$lib/server/studies/app';
@@ -30,7 +31,7 @@ export const actions = {
 		const result = await formAction(request, studyFormSchema, async (input) => {
 			const workers = await queueReady();
 			try {
-				const { id } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: url.origin, input });
+				const { id } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: url.origin, input, buildFits: buildFitsOnThread });
 				workers.wake();
 				return { id };
 			} catch (e) {

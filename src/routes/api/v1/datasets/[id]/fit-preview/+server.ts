@@ -12,5 +12,5 @@ export const POST = api<RequestHandler>(async (event) => {
 	const body = await readJson(event, fitPreviewSchema);
 	const full = await datasetStore.getWithData(db(), dataset.id);
 	if (!full) fail4xx(404, 'no such dataset');
-	return json(fitPreview(full, body));
+	return json(await fitPreview(full, body));
 });

@@ -3,6 +3,7 @@ import type { RequestHandler } from './$types';
 import { api, fail4xx, readJson } from '$lib/server/api';
 import { workspaceAccess } from '$lib/server/access';
 import { db } from '$lib/server/db';
+import { buildFitsOnThread } from '$lib/server/offload/pool';
 import { queueReady } from '$lib/server/studies/app';
 import { StudyRejected, launchStudy } from '$lib/server/studies/launch';
 import { studyInputSchema } from '$lib/server/studies/schema';
@@ -19,7 +20,7 @@ export const POST = api<RequestHandler>(async (event) => {
 	const input = await readJson(event, studyInputSchema);
 	const workers = await queueReady();
 	try {
-		const { id, status } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: event.url.origin, input });
+		const { id, status } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: event.url.origin, input, buildFits: buildFitsOnThread });
 		workers.wake();
 		return json({ id, status }, { status: 202, headers: { location: `/api/v1/studies/${id}` } });
 	} catch (e) {

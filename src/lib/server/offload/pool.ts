@@ -1,0 +1,86 @@
+/**
+ * The fit threads: every fit preview and every study launch's fit building runs
+ * here, so a heavy fit never holds up the request thread (health checks and
+ * other users keep their answers). A task past its time budget has its thread
+ * terminated and replaced; a full queue answers "busy, retry".
+ */
+import os from 'node:os';
+import path from 'node:path';
+import { ThreadPool } from '../studies/threadPool';
+import { StudyRejected } from '../studies/launch';
+import { formatBudget, LAUNCH_BUILD_BUDGET_MS, MAX_WAITING } from './limits';
+import type { BuildResult, BuildTask, FitTask } from './fitWork';
+import type { ParseTask } from './tableWork';
+import { PARSE_HEAP_MB } from '../datasets/limits';
+
+/** KINKLESS_FIT_THREADS (default: one less than the cores, one or two). */
+const threads = () => Math.max(1, Number(process.env.KINKLESS_FIT_THREADS ?? Math.min(2, Math.max(1, os.availableParallelism() - 1))) || 1);
+
+let pool: ThreadPool | null = null;
+let inFlight = 0;
+
+/** The task did not finish within its budget (its thread was stopped). */
+export class FitOverBudget extends Error {
+	constructor(readonly budgetMs: number) {
+		super(`did not finish within its ${formatBudget(budgetMs)} budget`);
+	}
+}
+/** Every fit thread is busy and the waiting line is full. */
+export class FitBusy extends Error {
+	constructor() {
+		super('every fit thread is busy; retry in a few seconds');
+	}
+}
+
+function thePool(): ThreadPool {
+	pool ??= new ThreadPool(path.join(process.cwd(), 'scripts', 'offload-thread.mjs'), threads(), undefined, (m) => console.error(m.replace('study thread', 'offload thread')), {
+		maxOldGenerationSizeMb: PARSE_HEAP_MB
+	});
+	return pool;
+}
+
+// A typed array may view a larger buffer; send only its own bytes.
+const compact = (a: Float64Array) => (a.byteOffset === 0 && a.byteLength === a.buffer.byteLength ? a : a.slice());
+
+function compactTask(task: FitTask | ParseTask): FitTask | ParseTask {
+	if (task.kind === 'parse') return task;
+	if (task.kind === 'preview') return { ...task, x: compact(task.x), y: compact(task.y) };
+	return { ...task, x: compact(task.x), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
+}
+
+/** Run `task` on a fit thread within `budgetMs` of thread time. */
+export async function runOnFitThread<R>(task: FitTask | ParseTask, budgetMs: number): Promise<R> {
+	const p = thePool();
+	if (inFlight >= p.size + MAX_WAITING) throw new FitBusy();
+	inFlight++;
+	try {
+		return await p.run<R>(compactTask(task), budgetMs);
+	} catch (e) {
+		if (e instanceof Error && /^timed out/.test(e.message)) throw new FitOverBudget(budgetMs);
+		throw e;
+	} finally {
+		inFlight--;
+	}
+}
+
+/**
+ * A study launch's fit building on a fit thread, within LAUNCH_BUILD_BUDGET_MS.
+ * Over budget, the launch is refused naming the limit (nothing is stored yet).
+ */
+export async function buildFitsOnThread(task: BuildTask): Promise<BuildResult> {
+	try {
+		return await runOnFitThread<BuildResult>(task, LAUNCH_BUILD_BUDGET_MS);
+	} catch (e) {
+		if (e instanceof FitOverBudget) {
+			const rows = task.x.length.toLocaleString('en-US');
+			throw new StudyRejected([{ field: 'fits', problem: `building ${task.fits.length} fit(s) of ${rows} rows ${e.message} (the limit for one launch); use fewer or cheaper fits, or thin the table` }]);
+		}
+		if (e instanceof FitBusy) throw new StudyRejected([{ field: 'fits', problem: e.message }]);
+		throw e;
+	}
+}
+
+/** Start the offload threads at server start, so the first heavy request does not pay for their start-up. */
+export function startOffloadThreads(): Promise<void> {
+	return thePool().ready();
+}
