@@ -230,4 +230,29 @@ describe('everyday use in the browser', () => {
 			await checkPage(page, name, path);
 		await page.close();
 	});
+
+	it('the demo workspace tells a finished story, and the new-study form starts from what the dataset is for', async () => {
+		const { context: demo, close: closeDemo } = await launch();
+		try {
+			expect((await demo.request.post('/api/v1/session', { data: { email: 'demo@larkmoor.example', password: 'larkmoor-demo-2026' } })).status()).toBe(200);
+			const page = await demo.newPage();
+			await page.goto('/w/larkmoor-aero');
+			await page.getByRole('link', { name: 'Propeller: peak efficiency' }).click();
+			await page.getByRole('heading', { name: /^Picked: / }).waitFor();
+			await expect(page.locator('blockquote').textContent()).resolves.toMatch(/ranks first: .*% of \d+ runs converge/s);
+			await checkPage(page, 'demo-study');
+			await page.goto('/w/larkmoor-aero/studies/new');
+			const source = page.getByLabel('Dataset and output');
+			const battery = await source.locator('option', { hasText: 'Battery pack' }).first().getAttribute('value');
+			await source.selectOption(battery!);
+			await expect(page.getByRole('radio', { name: /^Solve/ }).isChecked()).resolves.toBe(true);
+			await expect(page.getByLabel('Target value').inputValue()).resolves.toBe('300');
+			const wing = await source.locator('option', { hasText: 'Wing drag' }).first().getAttribute('value');
+			await source.selectOption(wing!);
+			await expect(page.getByRole('radio', { name: 'Minimize' }).isChecked()).resolves.toBe(true);
+			await checkPage(page, 'demo-study-new');
+		} finally {
+			await closeDemo();
+		}
+	});
 });
