@@ -2,13 +2,17 @@ import type { Knex } from 'knex';
 import { launchStudy } from '../src/lib/server/studies/launch';
 import { runStudyJob } from '../src/lib/server/studies/runner';
 import { studyInputSchema } from '../src/lib/server/studies/schema';
+import { scorecard } from '../src/lib/server/studies/scorecard';
+import * as store from '../src/lib/server/studies/store';
 import { DEMO_EMAIL, DEMO_WORKSPACE } from './01_demo_accounts';
 
 // One finished study per demo curve dataset of the invented "Larkmoor Aero"
 // workspace, so a newcomer lands on results. The runs are computed here, in
 // this process, by the same job runner the workers use (no queue at seed
 // time). Idempotent: a study already done under its name is left alone; an
-// unfinished one (an interrupted seed) is made again.
+// unfinished one (an interrupted seed) is made again. Each finished study gets
+// a recorded pick — the scorecard's first-ranked fit, with a rationale written
+// from its own verdict and numbers — so the demo tells the story to its end.
 
 type Plan = { dataset: string; output: RegExp; name: string; problem: Record<string, unknown>; optimizers: string[] };
 
@@ -45,8 +49,11 @@ export async function seed(knex: Knex): Promise<void> {
 		}
 		const output = d.columns.find((c) => c.role === 'output' && plan.output.test(c.name))?.name ?? d.columns.find((c) => c.role === 'output')?.name;
 		if (!output) continue;
-		const existing = await knex('studies').where({ workspace_id: ws.id, name: plan.name }).first('id', 'status');
-		if (existing?.status === 'done') continue;
+		const existing = await knex('studies').where({ workspace_id: ws.id, name: plan.name }).first('id', 'status', 'pick_fit_id');
+		if (existing?.status === 'done') {
+			if (!existing.pick_fit_id && user) await recordPick(knex, existing.id, user.id);
+			continue;
+		}
 		if (existing) await knex('studies').where({ id: existing.id }).delete();
 
 		const input = studyInputSchema.parse({
@@ -63,5 +70,23 @@ export async function seed(knex: Knex): Promise<void> {
 		for (const job of jobs) await runStudyJob(ctx, job);
 		const s = await knex('studies').where({ id }).first('status', 'runs_done', 'runs_total');
 		console.log(`seed 03: "${plan.name}": ${s.runs_done} of ${s.runs_total} runs, ${s.status}`);
+		if (s.status === 'done' && user) await recordPick(knex, id, user.id);
 	}
+}
+
+/** The first-ranked fit, picked with a rationale made of its own scorecard row. */
+async function recordPick(knex: Knex, studyId: string, userId: string): Promise<void> {
+	const study = await store.get(knex, studyId);
+	if (!study) return;
+	const rows = await scorecard(knex, study, await store.fits(knex, studyId));
+	const top = rows[0];
+	if (!top) return;
+	const concerns = top.verdict.concerns.map((c) => c.text).join('; ');
+	const rationale =
+		`${top.method} with ${top.optimizer} ranks first: ${top.verdict.label}${concerns ? ` (${concerns})` : ''}. ` +
+		`${Math.round(top.successRate * 100)}% of ${top.runs} runs converge; measured ${top.continuity.measured ?? top.continuity.declared}` +
+		`${top.fidelity?.looRmse != null ? `; leave-one-out RMSE ${Number(top.fidelity.looRmse.toPrecision(3))}` : ''}. ` +
+		`Demo pick made by the seed from the scorecard; check it against the source data before any design use.`;
+	await store.pick(knex, studyId, top.fitId, rationale, userId);
+	console.log(`seed 03: picked ${top.method} for study ${studyId}`);
 }

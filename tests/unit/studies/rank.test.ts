@@ -106,6 +106,15 @@ describe('the scorecard verdict and ranking', () => {
 		expect(r[0].verdict.tone).toBe('bad');
 	});
 
+	it('coarse data: a leave-one-out error every fit shares is not blamed on one fit', () => {
+		// every fit's LOO near 8% of the range (a coarse table): none is "far from the data"
+		const coarse = NINE.filter((c) => c.method !== 'polynomial-global').map((c) => ({ ...c, looRmse: 0.02 + c.looRmse }));
+		const best = Math.min(...coarse.map((c) => c.looRmse));
+		const r = rank(coarse.map((c) => row(c, best)));
+		expect(r.some((x) => x.verdict.concerns.some((c) => c.code === 'far-from-data'))).toBe(false);
+		expect(r[0].verdict.label).toBe('smooth and faithful');
+	});
+
 	it('never blames a kink on a fit measured smooth, even when its runs stall', () => {
 		const v = row({ method: 'cubic-natural', measured: 'C2', successRate: 0.3, looRmse: 0.004, overshoot: 0, spurious: 0, atKink: 0 }, bestLoo).verdict;
 		expect(v.label).toBe('the optimizer rarely converges');

@@ -4,7 +4,8 @@
  *
  * Each row collects concerns, each in one of three classes:
  *   - "unfaithful": the fit does not represent the data (leave-one-out error
- *     or overshoot large against the fit's range of f). Worst, whatever the
+ *     large against the data's range and against the study's best fit — on
+ *     coarse data every fit's is large — or overshoot large). Worst, whatever the
  *     optimizer does: a clean optimum of the wrong curve is still wrong.
  *   - "trap": the optimizer cannot be trusted on this fit — its converged
  *     runs end at separate points (the optimum depends on the start), a
@@ -77,7 +78,7 @@ export const THRESHOLDS = {
 } as const;
 
 export const VERDICT_RULE =
-	'Each row gets a verdict from its concerns. Worst: the fit is unfaithful to the data (leave-one-out RMSE above 5% of the fit’s range of f, or overshoot above 10%) — a clean optimum of the wrong curve is still wrong. ' +
+	'Each row gets a verdict from its concerns. Worst: the fit is unfaithful to the data (leave-one-out RMSE above 5% of the data’s range and 3× the best fit’s, or overshoot above 10%) — a clean optimum of the wrong curve is still wrong. ' +
 	'Next: the optimizer is trapped — converged runs end at separate points (more than 0.5% of the bounds apart, so the answer depends on the start), a measured kink stops runs, or fewer than half the runs converge. ' +
 	'Then minor concerns: spurious extrema or overshoot above 1%, leave-one-out RMSE above 1% of the range and 3× the best fit’s, 5% or more of runs stopping early, a best end point short of the fit’s own optimum, or a kink that runs got past, a rising or falling stretch of the data the fit does not keep. ' +
 	'Rows rank by their worst concern (none first), then by fewer concerns, then success rate (higher first), reaching the reference, leave-one-out RMSE (lower first) and median evaluations (fewer first).';
@@ -95,7 +96,9 @@ export function verdict(r: VerdictInput): Verdict {
 	const spurious = r.fidelity?.spuriousExtrema ?? 0;
 	const kinked = r.continuity.measured !== null && KINKED.has(r.continuity.measured);
 
-	if (looRel !== null && looRel > THRESHOLDS.looFar) concerns.push({ code: 'far-from-data', class: 'unfaithful', text: `leave-one-out error ${pct(looRel)} of the range` });
+	// far from the data only when also well behind the study's best fit: coarse data make every fit's leave-one-out error large
+	const behindBest = loo !== null && (r.bestLooRmse === null || loo > THRESHOLDS.looRatio * r.bestLooRmse);
+	if (looRel !== null && looRel > THRESHOLDS.looFar && behindBest) concerns.push({ code: 'far-from-data', class: 'unfaithful', text: `leave-one-out error ${pct(looRel)} of the range` });
 	if (overRel !== null && overRel > THRESHOLDS.overshootFar) concerns.push({ code: 'overshoot', class: 'unfaithful', text: `overshoots the data by ${pct(overRel)} of the range` });
 
 	const optima = r.optima ?? [];
@@ -121,7 +124,7 @@ export function verdict(r: VerdictInput): Verdict {
 				.filter(Boolean)
 				.join(', ')
 		});
-	if (looRel !== null && looRel <= THRESHOLDS.looFar && looRel > THRESHOLDS.looNote && loo !== null && r.bestLooRmse !== null && loo > THRESHOLDS.looRatio * r.bestLooRmse)
+	if (looRel !== null && !(looRel > THRESHOLDS.looFar && behindBest) && looRel > THRESHOLDS.looNote && loo !== null && r.bestLooRmse !== null && loo > THRESHOLDS.looRatio * r.bestLooRmse)
 		concerns.push({ code: 'less-faithful', class: 'minor', text: `leave-one-out error ${Number((loo / r.bestLooRmse).toPrecision(2))}× the best fit’s` });
 	if (r.monotoneBroken) concerns.push({ code: 'not-monotone', class: 'minor', text: r.monotoneBroken });
 	if (r.reachesReference === false) concerns.push({ code: 'short-of-reference', class: 'minor', text: 'best end point short of the fit’s own optimum' });

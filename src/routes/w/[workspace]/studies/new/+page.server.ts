@@ -17,7 +17,7 @@ export const load = (async ({ locals, params, url }) => {
 	const datasets = await datasetStore.listForWorkspace(db(), workspace.id);
 	return {
 		workspace: { slug: workspace.slug, name: workspace.name },
-		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, columns: d.columns })),
+		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, columns: d.columns, description: d.description })),
 		preselect: url.searchParams.get('dataset'),
 		fits: FIT_METHODS.map((m) => ({ method: m, continuity: curveMethods[m].continuity, options: (FORM_FIT_OPTIONS as Record<string, readonly { field: string; label: string; placeholder: string }[]>)[m] ?? [] })),
 		optimizers: OPTIMIZER_NAMES,
