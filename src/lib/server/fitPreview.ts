@@ -4,9 +4,9 @@ import { z } from 'zod';
 import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview } from '$lib/fitMethods';
 import type { CurveFitOptions, FitErrorCode } from '$lib/numerics/fits';
 import { fail4xx } from './api';
-import { formatBudget, PREVIEW_BUDGET_MS } from './fits/limits';
-import { FitBusy, FitOverBudget, runOnFitThread } from './fits/pool';
-import type { BuildResult, FitProblem, FitTask, PreviewResult } from './fits/work';
+import { formatBudget, PREVIEW_BUDGET_MS } from './offload/limits';
+import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import type { BuildResult, FitProblem, FitTask, PreviewResult } from './offload/fitWork';
 import type { DatasetMeta } from './datasetStore';
 
 const MAX_AT = 1000;

@@ -16,7 +16,11 @@ export type FitErrorCode =
 	| 'outside-domain'
 	| 'invalid-point'
 	| 'bad-fit-file'
-	| 'singular';
+	| 'singular'
+	| 'non-monotone-axis'
+	| 'shape-mismatch'
+	| 'too-many-inputs'
+	| 'coincident-points';
 
 export class FitError extends Error {
 	readonly code: FitErrorCode;

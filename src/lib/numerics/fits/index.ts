@@ -19,3 +19,8 @@ export { localQuadratic } from './local-quadratic';
 export { localCubic } from './local-cubic';
 export { smoothingSpline, solveSmoothingSpline, type SmoothingSolution } from './smoothing-spline';
 export { softenedLinear } from './softened-linear';
+export type { GridMethod, ScatterMethod, SurfaceMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats, SurfaceExtrapolation, HessianKind } from './surfaceTypes';
+export { TensorGrid, GRID_MAX_INPUTS, fillHermiteSlots, type LineSlopeRule } from './TensorGrid';
+export { prepareGrid, type PreparedGrid } from './prepareGrid';
+export { fitGrid, gridMethods, isGridMethod, gridLinear, gridCubicNatural, gridCubicNotAKnot, gridAkima, gridPchip, type GridBuilder, type GridMethodInfo } from './fitGrid';
+export { RadialBasis, fitScatter, isScatterMethod, RBF_MAX_INPUTS, RBF_CONDITION_WARNING, RBF_LOO_LIMIT } from './RadialBasis';

@@ -1,0 +1,395 @@
+/**
+ * Scattered fits of 1–6 inputs: radial basis function interpolation with a
+ * polynomial tail (H. Wendland, 2005, Scattered Data Approximation, ch. 8; see
+ * docs/references.md, "Surfaces"):
+ *
+ *   s(u) = Σ_j c_j φ(ε‖u − u_j‖) + a_0 + Σ_k a_k u_k   (degree 1 tail),
+ *   [K + λI  P] [c]   [y]
+ *   [Pᵀ      0] [a] = [0],
+ *
+ * with u the inputs scaled to unit range per input (so no input dominates the
+ * distance because of its units) and λ ≥ 0 the smoothing. Kernels as SciPy's
+ * RBFInterpolator: thin-plate r²·log r, multiquadric −√(1 + r²), Gaussian
+ * exp(−r²). The saddle system is solved by LU (ml-matrix); its inverse gives
+ * the exact 1-norm condition number and the leave-one-out residuals of
+ * S. Rippa, 1999 (Adv. Comput. Math. 11:193–210): e_i = c_i / (M⁻¹)_ii.
+ *
+ * Derivatives use g(s) = φ(ε√s) of the squared distance s, so
+ * ∂/∂u_k = 2g′(s)Δ_k and ∂²/∂u_k∂u_l = 4g″(s)Δ_kΔ_l + 2g′(s)δ_kl — no
+ * division by the distance. The thin-plate kernel is C1 but not C2 at its
+ * centres (g″ = ε²/(2s)): there the Hessian is not defined; we leave out that
+ * centre's second-derivative term and say so in the notes.
+ */
+import { LuDecomposition, Matrix } from 'ml-matrix';
+import { FitError } from './FitError';
+import { FIT_FILE_FORMAT, FIT_FILE_VERSION, encodeArray } from './fitFile';
+import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
+import type { Continuity } from './types';
+
+export const RBF_MAX_INPUTS = 6;
+/** condition number above which a warning note is added (common practice, no source: ~1/√machine-ε) */
+export const RBF_CONDITION_WARNING = 1e8;
+/** above this many points leave-one-out is off by default (it needs the full inverse, n³ work) */
+export const RBF_LOO_LIMIT = 1000;
+
+/**
+ * ‖M⁻¹‖₁ estimated by Hager's method (W. W. Hager, 1984, "Condition estimates",
+ * SIAM J. Sci. Stat. Comput. 5(2):311–316) from a few solves with the LU
+ * factors; M is symmetric, so the transposed solves are plain solves.
+ */
+function hagerInverseNorm(lu: LuDecomposition, N: number): number {
+	let x = new Array<number>(N).fill(1 / N);
+	let est = 0;
+	for (let iter = 0; iter < 5; iter++) {
+		const y = lu.solve(Matrix.columnVector(x)).getColumn(0);
+		const norm = y.reduce((p, v) => p + Math.abs(v), 0);
+		if (iter > 0 && norm <= est) break;
+		est = norm;
+		const z = lu.solve(Matrix.columnVector(y.map((v) => (v >= 0 ? 1 : -1)))).getColumn(0);
+		let j = 0;
+		for (let i = 1; i < N; i++) if (Math.abs(z[i]) > Math.abs(z[j])) j = i;
+		x = new Array<number>(N).fill(0);
+		x[j] = 1;
+	}
+	return est;
+}
+
+type Kernel = 'thin-plate' | 'multiquadric' | 'gaussian';
+
+/** g(s), g′(s), g″(s) of the squared scaled distance s, written to out[0..2]. */
+function kernelJet(kind: Kernel, e2: number, s: number, out: Float64Array): void {
+	if (kind === 'gaussian') {
+		const g = Math.exp(-e2 * s);
+		out[0] = g;
+		out[1] = -e2 * g;
+		out[2] = e2 * e2 * g;
+	} else if (kind === 'multiquadric') {
+		const q = Math.sqrt(1 + e2 * s);
+		out[0] = -q;
+		out[1] = -e2 / (2 * q);
+		out[2] = (e2 * e2) / (4 * q * q * q);
+	} else if (s === 0) {
+		// r² log r → 0; the gradient term vanishes with Δ = 0; g″ is infinite (flagged by the caller)
+		out[0] = 0;
+		out[1] = 0;
+		out[2] = 0;
+	} else {
+		const L = Math.log(e2 * s);
+		out[0] = 0.5 * e2 * s * L;
+		out[1] = 0.5 * e2 * (L + 1);
+		out[2] = (0.5 * e2) / s;
+	}
+}
+
+function kernelValue(kind: Kernel, e2: number, s: number): number {
+	if (kind === 'gaussian') return Math.exp(-e2 * s);
+	if (kind === 'multiquadric') return -Math.sqrt(1 + e2 * s);
+	return s === 0 ? 0 : 0.5 * e2 * s * Math.log(e2 * s);
+}
+
+const KERNEL: Record<ScatterMethod, Kernel> = { 'rbf-thin-plate': 'thin-plate', 'rbf-multiquadric': 'multiquadric', 'rbf-gaussian': 'gaussian' };
+
+export class RadialBasis implements SurfaceFit {
+	readonly method: ScatterMethod;
+	readonly dimension: number;
+	readonly continuity: Continuity;
+	readonly axisContinuity: readonly Continuity[];
+	readonly hessian: HessianKind;
+	readonly extrapolation = 'extend' as const;
+	readonly domain: readonly (readonly [number, number])[];
+	readonly notes: readonly string[];
+	readonly options: Readonly<SurfaceFitOptions>;
+	readonly stats: Readonly<SurfaceStats>;
+	/** centres in scaled inputs, point after point */
+	readonly centres: Float64Array;
+	readonly coefficients: Float64Array;
+	/** tail coefficients: constant, then one per input (degree 1) */
+	readonly tail: Float64Array;
+	private readonly kind: Kernel;
+	private readonly e2: number;
+	private readonly lo: Float64Array;
+	private readonly span: Float64Array;
+	private readonly u: Float64Array;
+	private readonly kj = new Float64Array(3);
+
+	constructor(method: ScatterMethod, xIn: readonly ArrayLike<number>[], yIn: ArrayLike<number>, options?: SurfaceFitOptions) {
+		const n = xIn.length;
+		const degree = options?.degree ?? 1;
+		const smoothing = options?.smoothing ?? 0;
+		const epsilon = options?.epsilon ?? 1;
+		if (![-1, 0, 1].includes(degree)) throw new FitError('bad-option', `${method}: degree must be -1, 0 or 1, got ${degree}`);
+		if (!(smoothing >= 0) || !Number.isFinite(smoothing)) throw new FitError('bad-option', `${method}: smoothing must be a finite number ≥ 0, got ${smoothing}`);
+		if (!(epsilon > 0) || !Number.isFinite(epsilon)) throw new FitError('bad-option', `${method}: epsilon must be a finite number > 0, got ${epsilon}`);
+		if (n === 0) throw new FitError('too-few-points', `${method}: no points`);
+		const d = xIn[0].length;
+		if (d < 1) throw new FitError('too-few-points', `${method}: points need at least 1 input`);
+		if (d > RBF_MAX_INPUTS) throw new FitError('too-many-inputs', `${method}: at most ${RBF_MAX_INPUTS} inputs, got ${d}`);
+		if (yIn.length !== n) throw new FitError('length-mismatch', `${method}: ${n} points but ${yIn.length} values`);
+		const tailSize = degree < 0 ? 0 : degree === 0 ? 1 : d + 1;
+		const minPoints = Math.max(2, tailSize + 1);
+		if (n < minPoints) throw new FitError('too-few-points', `${method}: ${n} points; at least ${minPoints} needed for ${d} input${d === 1 ? '' : 's'} with a degree-${degree} tail`);
+		this.method = method;
+		this.kind = KERNEL[method];
+		this.dimension = d;
+		this.e2 = epsilon * epsilon;
+		const notes: string[] = [];
+		this.lo = new Float64Array(d).fill(Infinity);
+		const hi = new Float64Array(d).fill(-Infinity);
+		const badRows: number[] = [];
+		for (let i = 0; i < n; i++) {
+			const p = xIn[i];
+			if (p.length !== d) throw new FitError('shape-mismatch', `${method}: row ${i + 1} has ${p.length} inputs, expected ${d}`, [i + 1]);
+			let ok = Number.isFinite(yIn[i]);
+			for (let k = 0; k < d; k++) {
+				if (!Number.isFinite(p[k])) ok = false;
+				else {
+					if (p[k] < this.lo[k]) this.lo[k] = p[k];
+					if (p[k] > hi[k]) hi[k] = p[k];
+				}
+			}
+			if (!ok) badRows.push(i + 1);
+		}
+		if (badRows.length) throw new FitError('non-finite', `${method}: non-finite numbers in rows ${badRows.slice(0, 10).join(', ')}`, badRows);
+		this.span = new Float64Array(d);
+		for (let k = 0; k < d; k++) {
+			this.span[k] = hi[k] - this.lo[k];
+			if (!(this.span[k] > 0)) throw new FitError('singular', `${method}: input ${k + 1} has the same value in every row; leave it out`);
+		}
+		this.domain = Object.freeze(Array.from({ length: d }, (_, k) => Object.freeze([this.lo[k], hi[k]] as const)));
+		const c = new Float64Array(n * d);
+		for (let i = 0; i < n; i++) for (let k = 0; k < d; k++) c[i * d + k] = (xIn[i][k] - this.lo[k]) / this.span[k];
+		this.centres = c;
+		refuseCoincident(c, n, d, method);
+		// the saddle-point matrix
+		const N = n + tailSize;
+		const M = new Matrix(N, N);
+		for (let i = 0; i < n; i++) {
+			for (let j = 0; j <= i; j++) {
+				let s = 0;
+				for (let k = 0; k < d; k++) {
+					const t = c[i * d + k] - c[j * d + k];
+					s += t * t;
+				}
+				const v = kernelValue(this.kind, this.e2, s);
+				M.set(i, j, v);
+				M.set(j, i, v);
+			}
+			M.set(i, i, M.get(i, i) + smoothing);
+			if (tailSize > 0) {
+				M.set(i, n, 1);
+				M.set(n, i, 1);
+				for (let k = 0; k < tailSize - 1; k++) {
+					M.set(i, n + 1 + k, c[i * d + k]);
+					M.set(n + 1 + k, i, c[i * d + k]);
+				}
+			}
+		}
+		const lu = new LuDecomposition(M);
+		if (lu.isSingular()) {
+			throw new FitError('singular', `${method}: the system is singular (points on a ${tailSize > 1 ? 'hyperplane the linear tail cannot separate' : 'degenerate set'}); add points or lower the tail degree`);
+		}
+		const b = new Float64Array(N);
+		for (let i = 0; i < n; i++) b[i] = yIn[i];
+		// 1-norm of M (M is symmetric: columns = rows)
+		let nA = 0;
+		for (let j = 0; j < N; j++) {
+			let sa = 0;
+			for (let i = 0; i < N; i++) sa += Math.abs(M.get(i, j));
+			if (sa > nA) nA = sa;
+		}
+		let condition: number;
+		let loo: Float64Array | undefined;
+		let ss = 0;
+		const wantLoo = options?.leaveOneOut ?? n <= RBF_LOO_LIMIT;
+		if (wantLoo) {
+			// the inverse gives the exact 1-norm condition number and Rippa's leave-one-out residuals
+			const inv = lu.solve(Matrix.eye(N, N));
+			const z = new Float64Array(N);
+			for (let i = 0; i < N; i++) {
+				let t = 0;
+				for (let j = 0; j < n; j++) t += inv.get(i, j) * b[j];
+				z[i] = t;
+			}
+			this.coefficients = z.slice(0, n);
+			this.tail = z.slice(n);
+			let nI = 0;
+			for (let j = 0; j < N; j++) {
+				let si = 0;
+				for (let i = 0; i < N; i++) si += Math.abs(inv.get(i, j));
+				if (si > nI) nI = si;
+			}
+			condition = nA * nI;
+			loo = new Float64Array(n);
+			let invDiagOk = true;
+			for (let i = 0; i < n; i++) {
+				const dii = inv.get(i, i);
+				if (dii === 0) invDiagOk = false;
+				loo[i] = this.coefficients[i] / dii;
+				ss += loo[i] * loo[i];
+			}
+			if (!invDiagOk) notes.push('leave-one-out: undefined for some points (the rest of the data cannot fit without them)');
+		} else {
+			const z = Float64Array.from(lu.solve(Matrix.columnVector(Array.from(b))).getColumn(0));
+			this.coefficients = z.slice(0, n);
+			this.tail = z.slice(n);
+			condition = nA * hagerInverseNorm(lu, N);
+			notes.push(`leave-one-out not computed (${n} points; above ${RBF_LOO_LIMIT} it needs the full inverse)`);
+		}
+		if (!(condition < RBF_CONDITION_WARNING)) {
+			notes.push(`ill-conditioned: condition number ≈ ${condition.toExponential(2)} (above ${RBF_CONDITION_WARNING.toExponential(0)}); values may carry large rounding errors — try smoothing > 0 or a different epsilon`);
+		}
+		if (this.kind === 'thin-plate') notes.push('thin-plate: C1 at the data points, where the Hessian is not defined (that point’s curvature term is left out)');
+		this.stats = Object.freeze(loo ? { condition, looResiduals: loo, looRms: Math.sqrt(ss / n) } : { condition });
+		this.continuity = this.kind === 'thin-plate' ? 'C1' : 'Cinf';
+		this.axisContinuity = Object.freeze(new Array<Continuity>(d).fill(this.continuity));
+		this.hessian = this.kind === 'thin-plate' ? 'piecewise' : 'exact';
+		this.notes = Object.freeze(notes);
+		this.options = Object.freeze({ degree, smoothing, epsilon });
+		this.u = new Float64Array(d);
+	}
+
+	private scale(x: ArrayLike<number>): boolean {
+		const d = this.dimension;
+		if (x.length !== d) throw new FitError('shape-mismatch', `${this.method}: expected a point with ${d} inputs, got ${x.length}`);
+		let outside = false;
+		for (let k = 0; k < d; k++) {
+			if (!Number.isFinite(x[k])) throw new FitError('invalid-point', `${this.method}: input ${k + 1} is ${x[k]}, not a finite number`);
+			this.u[k] = (x[k] - this.lo[k]) / this.span[k];
+			if (this.u[k] < 0 || this.u[k] > 1) outside = true;
+		}
+		return outside;
+	}
+
+	private tailValue(): number {
+		const t = this.tail;
+		if (t.length === 0) return 0;
+		let f = t[0];
+		for (let k = 1; k < t.length; k++) f += t[k] * this.u[k - 1];
+		return f;
+	}
+
+	value(x: ArrayLike<number>): number {
+		this.scale(x);
+		const d = this.dimension;
+		const c = this.centres;
+		const u = this.u;
+		let f = this.tailValue();
+		for (let j = 0, o = 0; j < this.coefficients.length; j++, o += d) {
+			let s = 0;
+			for (let k = 0; k < d; k++) {
+				const t = u[k] - c[o + k];
+				s += t * t;
+			}
+			f += this.coefficients[j] * kernelValue(this.kind, this.e2, s);
+		}
+		return f;
+	}
+
+	valueGradient(x: ArrayLike<number>, grad: Float64Array): number {
+		this.scale(x);
+		const d = this.dimension;
+		const c = this.centres;
+		const u = this.u;
+		const kj = this.kj;
+		let f = this.tailValue();
+		grad.fill(0, 0, d);
+		for (let j = 0, o = 0; j < this.coefficients.length; j++, o += d) {
+			let s = 0;
+			for (let k = 0; k < d; k++) {
+				const t = u[k] - c[o + k];
+				s += t * t;
+			}
+			kernelJet(this.kind, this.e2, s, kj);
+			const cj = this.coefficients[j];
+			f += cj * kj[0];
+			const w = 2 * cj * kj[1];
+			for (let k = 0; k < d; k++) grad[k] += w * (u[k] - c[o + k]);
+		}
+		for (let k = 0; k < d; k++) grad[k] = (grad[k] + (this.tail.length > 1 ? this.tail[k + 1] : 0)) / this.span[k];
+		return f;
+	}
+
+	evaluate(x: ArrayLike<number>): SurfaceJet {
+		const outside = this.scale(x);
+		const d = this.dimension;
+		const c = this.centres;
+		const u = this.u;
+		const kj = this.kj;
+		const grad = new Float64Array(d);
+		const hess = new Float64Array(d * d);
+		const delta = new Float64Array(d);
+		let f = this.tailValue();
+		for (let j = 0, o = 0; j < this.coefficients.length; j++, o += d) {
+			let s = 0;
+			for (let k = 0; k < d; k++) {
+				delta[k] = u[k] - c[o + k];
+				s += delta[k] * delta[k];
+			}
+			kernelJet(this.kind, this.e2, s, kj);
+			const cj = this.coefficients[j];
+			f += cj * kj[0];
+			const w1 = 2 * cj * kj[1];
+			const w2 = 4 * cj * kj[2];
+			for (let k = 0; k < d; k++) {
+				grad[k] += w1 * delta[k];
+				for (let l = k; l < d; l++) hess[k * d + l] += w2 * delta[k] * delta[l] + (k === l ? w1 : 0);
+			}
+		}
+		for (let k = 0; k < d; k++) {
+			grad[k] = (grad[k] + (this.tail.length > 1 ? this.tail[k + 1] : 0)) / this.span[k];
+			for (let l = k; l < d; l++) {
+				hess[k * d + l] /= this.span[k] * this.span[l];
+				hess[l * d + k] = hess[k * d + l];
+			}
+		}
+		return { f, grad, hess, outside, onLine: new Int32Array(d).fill(-1) };
+	}
+
+	toJSON(): unknown {
+		return {
+			format: FIT_FILE_FORMAT,
+			version: FIT_FILE_VERSION,
+			method: this.method,
+			continuity: this.continuity,
+			representation: 'radial-basis',
+			options: { ...this.options },
+			lower: encodeArray(this.lo),
+			span: encodeArray(this.span),
+			centres: encodeArray(this.centres),
+			coefficients: encodeArray(this.coefficients),
+			tail: encodeArray(this.tail),
+			notes: [...this.notes]
+		};
+	}
+}
+
+/** Exact duplicates among the scaled points → FitError naming the rows (sorted sweep, O(n log n)). */
+function refuseCoincident(c: Float64Array, n: number, d: number, method: string): void {
+	const order = Array.from({ length: n }, (_, i) => i);
+	order.sort((a, b) => {
+		for (let k = 0; k < d; k++) {
+			const t = c[a * d + k] - c[b * d + k];
+			if (t !== 0) return t;
+		}
+		return a - b;
+	});
+	for (let q = 1; q < n; q++) {
+		const a = order[q - 1];
+		const b = order[q];
+		let same = true;
+		for (let k = 0; k < d && same; k++) same = c[a * d + k] === c[b * d + k];
+		if (same) {
+			throw new FitError('coincident-points', `${method}: rows ${a + 1} and ${b + 1} have the same inputs; an interpolant cannot take two values there (average them or drop one)`, [a + 1, b + 1]);
+		}
+	}
+}
+
+export function isScatterMethod(m: unknown): m is ScatterMethod {
+	return typeof m === 'string' && Object.prototype.hasOwnProperty.call(KERNEL, m);
+}
+
+/** Fit values at scattered points (one array of inputs per row). Throws FitError on bad input. */
+export function fitScatter(method: ScatterMethod, x: readonly ArrayLike<number>[], y: ArrayLike<number>, options?: SurfaceFitOptions): RadialBasis {
+	if (!isScatterMethod(method)) throw new FitError('unknown-method', `unknown scattered method ${JSON.stringify(method)}`);
+	return new RadialBasis(method, x, y, options);
+}

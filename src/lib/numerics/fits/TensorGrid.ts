@@ -1,0 +1,355 @@
+/**
+ * Tensor-product fits on a full grid of 2–4 inputs (axes may be unevenly
+ * spaced), in the cubic Hermite form.
+ *
+ * Each grid cell carries one polynomial of degree ≤ 3 in every input, fixed by
+ * the value and the mixed partials ∂^S f (S any subset of the inputs) at its
+ * 2^d corners — the d-dimensional form of the bicubic Hermite patch of
+ * J. Ferguson, 1964, "Multivariable curve interpolation", J. ACM 11(2):221–228
+ * (see docs/references.md, "Surfaces"). Neighbouring cells share the corner
+ * data of their common face, so f and ∂f/∂x_k are continuous everywhere and
+ * every mixed partial that does not differentiate twice along one input is too;
+ * only ∂²f/∂x_k² can jump, on the grid lines of input k.
+ *
+ * The corner data come from a one-input slope rule applied axis by axis: for
+ * S = T ∪ {k} with k the highest input in S, ∂^S f along each grid line of
+ * input k is the rule's knot slopes of ∂^T f on that line. For the cubic
+ * splines (linear in the data) this is exactly the tensor-product spline —
+ * the same surface as applying the one-input spline along each input in turn —
+ * because a bicubic is fixed by its corner values, slopes and twists. Akima's
+ * and PCHIP's slopes are not linear in the data, so there the order matters;
+ * we take inputs in increasing order.
+ *
+ * grid-linear is the multilinear interpolant: the same cells with degree 1 in
+ * every input and only the corner values.
+ */
+import { FitError } from './FitError';
+import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, encodeArray } from './fitFile';
+import type { Continuity } from './types';
+import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, SurfaceFitOptions, SurfaceJet } from './surfaceTypes';
+
+export const GRID_MAX_INPUTS = 4;
+
+/** Knot slopes of one grid line: writes t_i to out[i] for the line's values y (x strictly increasing). */
+export type LineSlopeRule = (x: Float64Array, y: Float64Array, out: Float64Array) => void;
+
+export interface TensorGridInit {
+	method: GridMethod;
+	/** 'C0' (multilinear), 'C1' or 'C2' along every input */
+	continuity: Continuity;
+	axes: Float64Array[];
+	/** node data: per node 2^d slots (cubic) or 1 (linear); node index row-major, last input fastest */
+	data: Float64Array;
+	cubic: boolean;
+	options: SurfaceFitOptions;
+	notes: string[];
+}
+
+export class TensorGrid implements SurfaceFit {
+	readonly method: GridMethod;
+	readonly dimension: number;
+	readonly continuity: Continuity;
+	readonly axisContinuity: readonly Continuity[];
+	readonly hessian: HessianKind;
+	readonly extrapolation: SurfaceExtrapolation;
+	readonly domain: readonly (readonly [number, number])[];
+	readonly notes: readonly string[];
+	readonly options: Readonly<SurfaceFitOptions>;
+	readonly stats = Object.freeze({});
+	readonly axes: readonly Float64Array[];
+	readonly cubic: boolean;
+	/** node data (see TensorGridInit.data) */
+	readonly data: Float64Array;
+	/** slots per node */
+	private readonly slots: number;
+	/** node index strides per input */
+	private readonly strides: Int32Array;
+	/** per local term J: node offset (in nodes), slot, and per-input local basis index (0…3 or 0…1) */
+	private readonly termNode: Int32Array;
+	private readonly termSlot: Int32Array;
+	private readonly termBasis: Int32Array;
+	private readonly terms: number;
+	private readonly m: number;
+	// scratch reused by every evaluation (fits are used from one thread at a time)
+	private readonly w0: Float64Array;
+	private readonly w1: Float64Array;
+	private readonly w2: Float64Array;
+	private readonly cell: Int32Array;
+
+	constructor(init: TensorGridInit) {
+		const d = init.axes.length;
+		this.method = init.method;
+		this.dimension = d;
+		this.continuity = init.continuity;
+		this.axisContinuity = Object.freeze(Array.from({ length: d }, () => init.continuity));
+		this.hessian = init.continuity === 'C2' ? 'exact' : 'piecewise';
+		this.extrapolation = init.options.extrapolation ?? 'refuse';
+		this.axes = Object.freeze(init.axes.slice());
+		this.domain = Object.freeze(init.axes.map((a) => Object.freeze([a[0], a[a.length - 1]] as const)));
+		this.notes = Object.freeze(init.notes.slice());
+		this.options = Object.freeze({ ...init.options });
+		this.cubic = init.cubic;
+		this.data = init.data;
+		this.slots = init.cubic ? 1 << d : 1;
+		this.strides = new Int32Array(d);
+		let s = 1;
+		for (let k = d - 1; k >= 0; k--) {
+			this.strides[k] = s;
+			s *= init.axes[k].length;
+		}
+		if (init.data.length !== s * this.slots) throw new FitError('shape-mismatch', `grid data: expected ${s * this.slots} numbers, got ${init.data.length}`);
+		// Local terms: per input a corner c ∈ {0,1} and (cubic) a slot bit; basis index c·2 + bit (cubic) or c (linear).
+		this.m = init.cubic ? 4 : 2;
+		this.terms = this.m ** d;
+		this.termNode = new Int32Array(this.terms);
+		this.termSlot = new Int32Array(this.terms);
+		this.termBasis = new Int32Array(this.terms * d);
+		for (let J = 0; J < this.terms; J++) {
+			let r = J;
+			let node = 0;
+			let slot = 0;
+			for (let k = d - 1; k >= 0; k--) {
+				const b = r % this.m;
+				r = (r - b) / this.m;
+				this.termBasis[J * d + k] = b;
+				const c = init.cubic ? b >> 1 : b;
+				node += c * this.strides[k];
+				if (init.cubic && (b & 1) === 1) slot |= 1 << k;
+			}
+			this.termNode[J] = node;
+			this.termSlot[J] = slot;
+		}
+		this.w0 = new Float64Array(d * this.m);
+		this.w1 = new Float64Array(d * this.m);
+		this.w2 = new Float64Array(d * this.m);
+		this.cell = new Int32Array(d);
+	}
+
+	/** Per input: locate the cell and fill the basis weights and their first and second derivatives. Returns true when outside. */
+	private locate(x: ArrayLike<number>, onLine: Int32Array | null): boolean {
+		const d = this.dimension;
+		if (x.length !== d) throw new FitError('shape-mismatch', `${this.method}: expected a point with ${d} inputs, got ${x.length}`);
+		let outside = false;
+		for (let k = 0; k < d; k++) {
+			const a = this.axes[k];
+			const v = x[k];
+			if (!Number.isFinite(v)) throw new FitError('invalid-point', `${this.method}: input ${k + 1} is ${v}, not a finite number`);
+			const n = a.length;
+			if (v < a[0] || v > a[n - 1]) {
+				if (this.extrapolation === 'refuse') {
+					throw new FitError('outside-domain', `${this.method}: input ${k + 1} = ${v} lies outside the data [${a[0]}, ${a[n - 1]}]`);
+				}
+				outside = true;
+			}
+			// the cell [a_i, a_{i+1}] with a_i ≤ v < a_{i+1} (the last cell also takes the right end)
+			let lo = 0;
+			let hi = n - 2;
+			if (v >= a[hi]) lo = hi;
+			else if (v > a[0]) {
+				while (hi - lo > 1) {
+					const mid = (lo + hi) >> 1;
+					if (a[mid] <= v) lo = mid;
+					else hi = mid;
+				}
+			}
+			const i = lo;
+			this.cell[k] = i;
+			if (onLine) {
+				// why a tolerance: an optimizer that stops on a line lands within rounding of it
+				const tol = 1e-9 * (a[n - 1] - a[0]);
+				let line = -1;
+				if (i > 0 && Math.abs(v - a[i]) <= tol) line = i;
+				else if (i + 1 < n - 1 && Math.abs(v - a[i + 1]) <= tol) line = i + 1;
+				onLine[k] = line;
+			}
+			const h = a[i + 1] - a[i];
+			const t = (v - a[i]) / h;
+			const o = k * this.m;
+			if (this.cubic) {
+				const t2 = t * t;
+				const t3 = t2 * t;
+				this.w0[o] = 2 * t3 - 3 * t2 + 1;
+				this.w0[o + 1] = (t3 - 2 * t2 + t) * h;
+				this.w0[o + 2] = -2 * t3 + 3 * t2;
+				this.w0[o + 3] = (t3 - t2) * h;
+				this.w1[o] = (6 * t2 - 6 * t) / h;
+				this.w1[o + 1] = 3 * t2 - 4 * t + 1;
+				this.w1[o + 2] = (-6 * t2 + 6 * t) / h;
+				this.w1[o + 3] = 3 * t2 - 2 * t;
+				this.w2[o] = (12 * t - 6) / (h * h);
+				this.w2[o + 1] = (6 * t - 4) / h;
+				this.w2[o + 2] = (-12 * t + 6) / (h * h);
+				this.w2[o + 3] = (6 * t - 2) / h;
+			} else {
+				this.w0[o] = 1 - t;
+				this.w0[o + 1] = t;
+				this.w1[o] = -1 / h;
+				this.w1[o + 1] = 1 / h;
+				this.w2[o] = 0;
+				this.w2[o + 1] = 0;
+			}
+		}
+		return outside;
+	}
+
+	private base(): number {
+		let node = 0;
+		for (let k = 0; k < this.dimension; k++) node += this.cell[k] * this.strides[k];
+		return node;
+	}
+
+	value(x: ArrayLike<number>): number {
+		this.locate(x, null);
+		const d = this.dimension;
+		const base = this.base();
+		let f = 0;
+		for (let J = 0; J < this.terms; J++) {
+			let p = this.data[(base + this.termNode[J]) * this.slots + this.termSlot[J]];
+			for (let k = 0; k < d; k++) p *= this.w0[k * this.m + this.termBasis[J * d + k]];
+			f += p;
+		}
+		return f;
+	}
+
+	valueGradient(x: ArrayLike<number>, grad: Float64Array): number {
+		this.locate(x, null);
+		const d = this.dimension;
+		const base = this.base();
+		let f = 0;
+		grad.fill(0, 0, d);
+		const a = this.w0;
+		const b = this.w1;
+		const m = this.m;
+		for (let J = 0; J < this.terms; J++) {
+			const v = this.data[(base + this.termNode[J]) * this.slots + this.termSlot[J]];
+			if (v === 0) continue;
+			const jb = J * d;
+			// why prefix/suffix products: ∂/∂x_j replaces one factor, with no division (a factor can be 0)
+			let prefix = v;
+			for (let j = 0; j < d; j++) {
+				let suffix = 1;
+				for (let k = j + 1; k < d; k++) suffix *= a[k * m + this.termBasis[jb + k]];
+				const bj = this.termBasis[jb + j];
+				grad[j] += prefix * b[j * m + bj] * suffix;
+				prefix *= a[j * m + bj];
+			}
+			f += prefix;
+		}
+		return f;
+	}
+
+	evaluate(x: ArrayLike<number>): SurfaceJet {
+		const d = this.dimension;
+		const onLine = new Int32Array(d);
+		const outside = this.locate(x, onLine);
+		const base = this.base();
+		const grad = new Float64Array(d);
+		const hess = new Float64Array(d * d);
+		const m = this.m;
+		const fa = new Float64Array(d);
+		const fb = new Float64Array(d);
+		const fe = new Float64Array(d);
+		let f = 0;
+		for (let J = 0; J < this.terms; J++) {
+			const v = this.data[(base + this.termNode[J]) * this.slots + this.termSlot[J]];
+			if (v === 0) continue;
+			for (let k = 0; k < d; k++) {
+				const bk = k * m + this.termBasis[J * d + k];
+				fa[k] = this.w0[bk];
+				fb[k] = this.w1[bk];
+				fe[k] = this.w2[bk];
+			}
+			for (let j = 0; j < d; j++) {
+				let pj = v;
+				for (let k = 0; k < d; k++) if (k !== j) pj *= fa[k];
+				grad[j] += pj * fb[j];
+				hess[j * d + j] += pj * fe[j];
+				for (let l = j + 1; l < d; l++) {
+					let pjl = v * fb[j] * fb[l];
+					for (let k = 0; k < d; k++) if (k !== j && k !== l) pjl *= fa[k];
+					hess[j * d + l] += pjl;
+				}
+			}
+			let p = v;
+			for (let k = 0; k < d; k++) p *= fa[k];
+			f += p;
+		}
+		for (let j = 0; j < d; j++) for (let l = j + 1; l < d; l++) hess[l * d + j] = hess[j * d + l];
+		return { f, grad, hess, outside, onLine };
+	}
+
+	/** Value at a grid node (row-major node index). */
+	nodeValue(node: number): number {
+		return this.data[node * this.slots];
+	}
+
+	toJSON(): unknown {
+		return {
+			format: FIT_FILE_FORMAT,
+			version: FIT_FILE_VERSION,
+			method: this.method,
+			continuity: this.continuity,
+			extrapolation: this.extrapolation,
+			domain: this.domain.map((r) => encodeArray(r)),
+			options: { ...this.options },
+			representation: 'tensor-hermite',
+			axes: this.axes.map((a) => encodeArray(a)),
+			cubic: this.cubic,
+			data: encodeArray(this.data),
+			notes: [...this.notes]
+		};
+	}
+
+	static fromJSON(json: unknown): TensorGrid {
+		const o = json as Record<string, unknown>;
+		if (!o || typeof o !== 'object' || o.representation !== 'tensor-hermite' || !Array.isArray(o.axes)) {
+			throw new FitError('bad-fit-file', 'fit file: not a tensor-hermite grid fit');
+		}
+		const axes = (o.axes as unknown[]).map((a, k) => decodeArray(a, `axes[${k}]`));
+		const ext = o.extrapolation === 'extend' ? 'extend' : 'refuse';
+		return new TensorGrid({
+			method: o.method as GridMethod,
+			continuity: o.continuity as Continuity,
+			axes,
+			data: decodeArray(o.data, 'data'),
+			cubic: o.cubic === true,
+			options: { extrapolation: ext },
+			notes: Array.isArray(o.notes) ? (o.notes as unknown[]).map(String) : []
+		});
+	}
+}
+
+/**
+ * Fills the derivative slots of cubic node data in place: slot S (a bit set of
+ * inputs) along the grid lines of k = highest bit of S is `rule` applied to
+ * slot S without k. Slot 0 must hold the values.
+ */
+export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
+	const d = axes.length;
+	const slots = 1 << d;
+	const sizes = axes.map((a) => a.length);
+	const total = sizes.reduce((p, n) => p * n, 1);
+	const strides = new Array<number>(d);
+	let s = 1;
+	for (let k = d - 1; k >= 0; k--) {
+		strides[k] = s;
+		s *= sizes[k];
+	}
+	const maxN = Math.max(...sizes);
+	const line = new Float64Array(maxN);
+	const out = new Float64Array(maxN);
+	for (let S = 1; S < slots; S++) {
+		const k = 31 - Math.clz32(S);
+		const from = S ^ (1 << k);
+		const n = sizes[k];
+		const yk = line.subarray(0, n);
+		const tk = out.subarray(0, n);
+		// every line of input k: nodes whose index along k is 0
+		for (let node = 0; node < total; node++) {
+			if (Math.floor(node / strides[k]) % n !== 0) continue;
+			for (let i = 0; i < n; i++) yk[i] = data[(node + i * strides[k]) * slots + from];
+			rule(axes[k], yk, tk);
+			for (let i = 0; i < n; i++) data[(node + i * strides[k]) * slots + S] = tk[i];
+		}
+	}
+}

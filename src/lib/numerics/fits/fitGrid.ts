@@ -1,0 +1,95 @@
+/**
+ * The registry of grid methods (2–4 inputs on a full tensor grid): build a
+ * fit by method name, or rebuild one from its fit file.
+ */
+import { akimaSlopesInto } from './akimaSlopes';
+import { cubicSplineSlopesInto } from './cubicSplineSlopes';
+import { FitError } from './FitError';
+import { pchipSlopesInto } from './pchip';
+import { prepareGrid } from './prepareGrid';
+import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './TensorGrid';
+import type { GridMethod, SurfaceFitOptions } from './surfaceTypes';
+import type { Continuity } from './types';
+
+export type GridBuilder = (axes: readonly ArrayLike<number>[], values: ArrayLike<number>, options?: SurfaceFitOptions) => TensorGrid;
+
+export interface GridMethodInfo {
+	build: GridBuilder;
+	/** the class along every input */
+	continuity: Continuity;
+	/** fewest grid values per input */
+	minPoints: number;
+}
+
+function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
+	let buf = new Float64Array(0);
+	return (x, y, out) => {
+		const n = x.length;
+		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
+		cubicSplineSlopesInto(x, y, { kind }, { kind }, buf, 2, 0, 1);
+		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+	};
+}
+
+function akimaRule(): LineSlopeRule {
+	let buf = new Float64Array(0);
+	return (x, y, out) => {
+		const n = x.length;
+		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
+		akimaSlopesInto(x, y, false, buf, 2, 0, 1);
+		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+	};
+}
+
+const pchipRule: LineSlopeRule = (x, y, out) => pchipSlopesInto(x, y, out, 1, 0);
+
+function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
+	const ext = options?.extrapolation ?? 'refuse';
+	if (ext !== 'refuse' && ext !== 'extend') throw new FitError('bad-option', `${label}: extrapolation must be 'refuse' or 'extend', got ${JSON.stringify(ext)}`);
+	return { extrapolation: ext };
+}
+
+function cubicBuilder(method: GridMethod, continuity: Continuity, minPoints: number, rule: () => LineSlopeRule): GridBuilder {
+	return (axesIn, valuesIn, options) => {
+		const opts = resolve(options, method);
+		const g = prepareGrid(axesIn, valuesIn, method, minPoints);
+		const slots = 1 << g.axes.length;
+		const data = new Float64Array(g.values.length * slots);
+		for (let i = 0; i < g.values.length; i++) data[i * slots] = g.values[i];
+		fillHermiteSlots(g.axes, data, rule());
+		return new TensorGrid({ method, continuity, axes: g.axes, data, cubic: true, options: opts, notes: g.notes });
+	};
+}
+
+/** Multilinear interpolation: C0, exact for functions linear in each input separately. */
+export const gridLinear: GridBuilder = (axesIn, valuesIn, options) => {
+	const opts = resolve(options, 'grid-linear');
+	const g = prepareGrid(axesIn, valuesIn, 'grid-linear', 2);
+	return new TensorGrid({ method: 'grid-linear', continuity: 'C0', axes: g.axes, data: g.values, cubic: false, options: opts, notes: g.notes });
+};
+/** Tensor-product natural cubic spline (C2). */
+export const gridCubicNatural = cubicBuilder('grid-cubic-natural', 'C2', 2, () => splineRule('natural'));
+/** Tensor-product not-a-knot cubic spline (C2; exact for products of cubics). */
+export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', 'C2', 2, () => splineRule('not-a-knot'));
+/** Akima's slopes along each input, tensor Hermite cells (C1). */
+export const gridAkima = cubicBuilder('grid-akima', 'C1', 3, akimaRule);
+/** PCHIP slopes along each input, tensor Hermite cells (C1). */
+export const gridPchip = cubicBuilder('grid-pchip', 'C1', 2, () => pchipRule);
+
+export const gridMethods: Readonly<Record<GridMethod, GridMethodInfo>> = Object.freeze({
+	'grid-linear': { build: gridLinear, continuity: 'C0', minPoints: 2 },
+	'grid-cubic-natural': { build: gridCubicNatural, continuity: 'C2', minPoints: 2 },
+	'grid-cubic-not-a-knot': { build: gridCubicNotAKnot, continuity: 'C2', minPoints: 2 },
+	'grid-akima': { build: gridAkima, continuity: 'C1', minPoints: 3 },
+	'grid-pchip': { build: gridPchip, continuity: 'C1', minPoints: 2 }
+});
+
+export function isGridMethod(method: unknown): method is GridMethod {
+	return typeof method === 'string' && Object.prototype.hasOwnProperty.call(gridMethods, method);
+}
+
+/** Fit values on a full grid (row-major, last input fastest). Throws FitError on bad input. */
+export function fitGrid(method: GridMethod, axes: readonly ArrayLike<number>[], values: ArrayLike<number>, options?: SurfaceFitOptions): TensorGrid {
+	if (!isGridMethod(method)) throw new FitError('unknown-method', `unknown grid method ${JSON.stringify(method)}`);
+	return gridMethods[method].build(axes, values, options);
+}
