@@ -43,13 +43,14 @@ function lineChart(o: { title: string; xLabel: string; yLabel: string; x: number
 	const py = (y: number) => CHART_H - m.b - ((y - y0) / (y1 - y0)) * (CHART_H - m.t - m.b);
 	const path = o.x.map((x, i) => `${i ? 'L' : 'M'}${px(x).toFixed(1)},${py(o.y[i]).toFixed(1)}`).join('');
 	const ticks = (a: number, b: number) => [0, 0.25, 0.5, 0.75, 1].map((t) => a + t * (b - a));
+	const tick = (v: number) => (Math.abs(v) < 1e-12 * Math.max(Math.abs(y0), Math.abs(y1), 1) ? '0' : String(Number(v.toPrecision(3))));
 	const dots = (o.points?.x ?? []).map((x, i) => `<circle cx="${px(x).toFixed(1)}" cy="${py(o.points!.y[i]).toFixed(1)}" r="2.5" fill="#333"/>`).join('');
 	const mark = o.mark != null && Number.isFinite(o.mark) ? `<line x1="${px(o.mark)}" x2="${px(o.mark)}" y1="${m.t}" y2="${CHART_H - m.b}" stroke="#c2410c" stroke-dasharray="4 3"/>` : '';
 	return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${CHART_W} ${CHART_H}" width="${CHART_W}" height="${CHART_H}" role="img" aria-label="${esc(o.title)}" font-family="system-ui, sans-serif" font-size="10">
 <title>${esc(o.title)}</title><rect width="100%" height="100%" fill="#fff"/>
 <text x="${m.l}" y="15" font-size="12" font-weight="600">${esc(o.title)}</text>
-${ticks(x0, x1).map((t) => `<line x1="${px(t)}" x2="${px(t)}" y1="${m.t}" y2="${CHART_H - m.b}" stroke="#eee"/><text x="${px(t)}" y="${CHART_H - m.b + 13}" text-anchor="middle">${fmt(t)}</text>`).join('')}
-${ticks(y0, y1).map((t) => `<line x1="${m.l}" x2="${CHART_W - m.r}" y1="${py(t)}" y2="${py(t)}" stroke="#eee"/><text x="${m.l - 4}" y="${py(t) + 3}" text-anchor="end">${fmt(t)}</text>`).join('')}
+${ticks(x0, x1).map((t) => `<line x1="${px(t)}" x2="${px(t)}" y1="${m.t}" y2="${CHART_H - m.b}" stroke="#eee"/><text x="${px(t)}" y="${CHART_H - m.b + 13}" text-anchor="middle">${tick(t)}</text>`).join('')}
+${ticks(y0, y1).map((t) => `<line x1="${m.l}" x2="${CHART_W - m.r}" y1="${py(t)}" y2="${py(t)}" stroke="#eee"/><text x="${m.l - 4}" y="${py(t) + 3}" text-anchor="end">${tick(t)}</text>`).join('')}
 <path d="${path}" fill="none" stroke="#0f766e" stroke-width="1.6"/>${dots}${mark}
 <text x="${(m.l + CHART_W - m.r) / 2}" y="${CHART_H - 8}" text-anchor="middle">${esc(o.xLabel)}</text>
 <text transform="translate(12 ${(m.t + CHART_H - m.b) / 2}) rotate(-90)" text-anchor="middle">${esc(o.yLabel)}</text>
@@ -100,7 +101,9 @@ body { font: 13px/1.45 system-ui, sans-serif; color: #1f2328; margin: 24px auto;
 h1 { font-size: 22px; margin: 0 0 4px; } h2 { font-size: 15px; margin: 22px 0 6px; border-bottom: 1px solid #ddd; padding-bottom: 3px; }
 table { border-collapse: collapse; width: 100%; font-size: 11.5px; } th, td { border: 1px solid #ddd; padding: 3px 6px; text-align: left; vertical-align: top; }
 th { background: #f4f2ec; } td.n { text-align: right; font-variant-numeric: tabular-nums; } tr.pick { background: #e6f4f1; }
-dl { display: grid; grid-template-columns: 11rem 1fr; gap: 2px 12px; margin: 0; } dt { color: #555; } dd { margin: 0; word-break: break-all; }
+dl { display: grid; grid-template-columns: 11rem 1fr; gap: 2px 12px; margin: 0; } dt { color: #555; } dd { margin: 0; overflow-wrap: anywhere; }
+.scroll { overflow-x: auto; }
+@media (max-width: 640px) { dl { grid-template-columns: 1fr; } dt { margin-top: 4px; } }
 .caution { border: 2px solid #c2410c; background: #fff7ed; padding: 8px 10px; margin: 14px 0; font-weight: 500; }
 .charts { display: flex; flex-wrap: wrap; gap: 12px; } .charts svg { max-width: 100%; height: auto; border: 1px solid #eee; }
 .note { color: #555; } .actions { margin: 8px 0 16px; } .actions a { margin-right: 12px; }
@@ -127,18 +130,18 @@ dl { display: grid; grid-template-columns: 11rem 1fr; gap: 2px 12px; margin: 0; 
 <dt>budgets per run</dt><dd>${esc(`${spec.budgets.maxIterations} iterations, ${spec.budgets.maxEvaluations} evaluations, ${spec.budgets.maxMilliseconds} ms`)}</dd>
 <dt>run by</dt><dd>${esc(study.createdBy?.name ?? '—')}, started ${esc(when(study.startedAt ?? study.createdAt))}, finished ${esc(when(study.finishedAt))}</dd></dl>
 <h2>Scorecard</h2>
-<table><thead><tr><th>#</th><th>fit</th><th>optimizer</th><th>verdict</th><th>continuity</th><th class="n">success</th><th class="n">median iterations</th><th class="n">best f*</th><th class="n">at x*</th><th class="n">LOO RMSE</th></tr></thead><tbody>
+<div class="scroll"><table><thead><tr><th>#</th><th>fit</th><th>optimizer</th><th>verdict</th><th>continuity</th><th class="n">success</th><th class="n">median iterations</th><th class="n">best f*</th><th class="n">at x*</th><th class="n">LOO RMSE</th></tr></thead><tbody>
 ${card
 	.map(
 		(r) =>
 			`<tr${r.fitId === study.pick?.fitId ? ' class="pick"' : ''}><td class="n">${r.rank}</td><td>${esc(r.method)}${r.fitId === study.pick?.fitId ? ' (picked)' : ''}</td><td>${esc(r.optimizer)}</td><td>${esc(r.verdict.label)}</td><td>${esc(r.continuity.declared)} / ${esc(r.continuity.measured ?? '—')}</td><td class="n">${fmt(100 * r.successRate)} %</td><td class="n">${fmt(r.medianIterations)}</td><td class="n">${fmt(r.best?.f)}</td><td class="n">${r.best ? r.best.x.map(fmt).join(', ') : '—'}</td><td class="n">${fmt(r.fidelity?.looRmse)}</td></tr>`
 	)
 	.join('\n')}
-</tbody></table>
+</tbody></table></div>
 <h2>The pick</h2>
 ${
 	study.pick && picked
-		? `<dl data-testid="record-pick"><dt>fit</dt><dd>${esc(picked.method)} (${esc(picked.continuity)})</dd><dt>rationale</dt><dd style="word-break: normal">${esc(study.pick.rationale)}</dd><dt>picked by</dt><dd>${esc(study.pick.by ?? '—')}, ${esc(when(study.pick.at))}</dd>${
+		? `<dl data-testid="record-pick"><dt>fit</dt><dd>${esc(picked.method)} (${esc(picked.continuity)})</dd><dt>rationale</dt><dd>${esc(study.pick.rationale)}</dd><dt>picked by</dt><dd>${esc(study.pick.by ?? '—')}, ${esc(when(study.pick.at))}</dd>${
 				bestOf(picked.id)?.best ? `<dt>optimum on this fit</dt><dd>${esc(spec.dataset.input.name)} = ${fmt(bestOf(picked.id)!.best!.x[0])}, ${esc(spec.dataset.output.name)} = ${fmt(bestOf(picked.id)!.best!.f)}</dd>` : ''
 			}</dl>`
 		: '<p>No fit has been picked yet.</p>'
