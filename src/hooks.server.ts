@@ -4,10 +4,13 @@ import * as apiTokens from '$lib/server/apiTokens';
 import { errorBody } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
+import { startOffloadThreads } from '$lib/server/offload/pool';
 import { startStudyWorkers } from '$lib/server/studies/app';
 
 export const init: ServerInit = async () => {
 	await startCatcher();
+	// fit previews, a launch's fit building and upload parsing run on these threads; not awaited
+	void startOffloadThreads().catch(() => {});
 	// the job queue and study worker threads (KINKLESS_WORKERS=0: none in this process); not awaited
 	void startStudyWorkers().catch(() => {});
 };

@@ -7,7 +7,6 @@ import {
 	MAX_FILE_BYTES,
 	MAX_NAME_LENGTH,
 	formatMegabytes,
-	parseTable,
 	sha256,
 	validateTable,
 	type ErrorDetail,
@@ -16,6 +15,12 @@ import {
 	type ValidationReport
 } from './datasets';
 import * as datasetStore from './datasetStore';
+import { fail4xx } from './api';
+import type { ParseInput } from './datasets/parseTable';
+import { PARSE_HEAP_MB } from './datasets/limits';
+import { PARSE_BUDGET_MS } from './offload/limits';
+import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import type { ParseResult } from './offload/tableWork';
 
 /** Room for the multipart framing and the small fields that travel with the file. */
 const FORM_OVERHEAD = 1024 * 1024;
@@ -150,10 +155,23 @@ export async function uploadSource(form: FormData, sheet?: string): Promise<Sour
 	return null;
 }
 
-export function parseSource(source: Source): Promise<ParsedTable> {
-	return source.kind === 'file'
-		? parseTable({ bytes: source.bytes, filename: source.filename, ...(source.sheet ? { sheet: source.sheet } : {}) })
-		: parseTable({ text: source.text });
+/** Read the table on an offload thread (never on the request thread), within a time and memory budget. */
+export async function parseSource(source: Source): Promise<ParsedTable> {
+	const input: ParseInput =
+		source.kind === 'file' ? { bytes: source.bytes, filename: source.filename, ...(source.sheet ? { sheet: source.sheet } : {}) } : { text: source.text };
+	let result: ParseResult;
+	try {
+		result = await runOnFitThread<ParseResult>({ kind: 'parse', input }, PARSE_BUDGET_MS);
+	} catch (e) {
+		if (e instanceof FitOverBudget) throw new DatasetError('over-budget', `reading the file ${e.message} (the limit for one upload); save it as CSV, or split it`);
+		if (e instanceof FitBusy) fail4xx(503, e.message, 'busy');
+		if (e instanceof Error && /exited|crashed|memory/i.test(e.message)) {
+			throw new DatasetError('expands-too-far', `reading the file needed more than the ${PARSE_HEAP_MB} MB one upload may use; save the sheet as CSV, or split it`);
+		}
+		throw e;
+	}
+	if (!result.ok) throw new DatasetError(result.code, result.message, result.details);
+	return result.table;
 }
 
 export function sourceBytes(source: Source): Uint8Array {

@@ -4,9 +4,9 @@ import { z } from 'zod';
 import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview } from '$lib/fitMethods';
 import type { CurveFitOptions, FitErrorCode } from '$lib/numerics/fits';
 import { fail4xx } from './api';
-import { formatBudget, PREVIEW_BUDGET_MS } from './fits/limits';
-import { FitBusy, FitOverBudget, runOnFitThread } from './fits/pool';
-import type { PreviewResult } from './fits/work';
+import { formatBudget, PREVIEW_BUDGET_MS } from './offload/limits';
+import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import type { BuildResult, FitProblem, FitTask, PreviewResult } from './offload/fitWork';
 import type { DatasetMeta } from './datasetStore';
 
 const MAX_AT = 1000;
@@ -70,9 +70,9 @@ const FIELD_OF: Partial<Record<FitErrorCode, string>> = {
 	singular: 'options.degree'
 };
 
-/** Fit, sample and audit one output of a curve dataset on a fit thread. Throws 422 naming the field or limit at fault. */
-export async function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): Promise<FitPreview> {
-	const { columns, data } = dataset;
+/** The data and settings of a preview request, checked. Throws 422 naming the field at fault. */
+function previewInput(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
+	const { columns } = dataset;
 	const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
 	const j = columns.findIndex((c) => c.name === request.output && c.role === 'output');
 	if (j === -1) {
@@ -93,24 +93,44 @@ export async function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }
 	if (o.lambda !== undefined && o.lambda !== null) options.lambda = o.lambda;
 	if (o.width !== undefined) options.width = o.width;
 	if (o.slopes) options.slopes = o.slopes;
+	return { i, j, options };
+}
 
-	let result: PreviewResult;
+function fitProblem(problem: FitProblem): never {
+	if (problem.kind === 'size') fail4xx(422, `method: ${problem.message}`, 'too-large', [{ field: 'method', problem: problem.message }]);
+	if (problem.kind === 'at') fail4xx(422, `at[${problem.index}]: ${problem.message}`, 'outside-domain', [{ field: `at.${problem.index}`, problem: problem.message }]);
+	const field = FIELD_OF[problem.code] ?? (problem.code === 'bad-option' ? 'options' : 'method');
+	fail4xx(422, `${field}: ${problem.message}`, 'fit-failed', [{ field, problem: problem.message }]);
+}
+
+async function onThread<T>(task: FitTask, rows: number, method: string): Promise<T> {
 	try {
-		result = await runOnFitThread<PreviewResult>({ kind: 'preview', x: data[i], y: data[j], method: request.method, options, at: request.at }, PREVIEW_BUDGET_MS);
+		return await runOnFitThread<T>(task, PREVIEW_BUDGET_MS);
 	} catch (e) {
 		if (e instanceof FitOverBudget) {
-			const rows = data[i].length.toLocaleString('en-US');
-			fail4xx(422, `the ${request.method} preview of ${rows} rows ${e.message} (the limit for one fit preview); thin the table or choose a cheaper method`, 'over-budget', [
+			fail4xx(422, `the ${method} preview of ${rows.toLocaleString('en-US')} rows ${e.message} (the limit for one fit preview); thin the table or choose a cheaper method`, 'over-budget', [
 				{ field: 'method', problem: `over the ${formatBudget(PREVIEW_BUDGET_MS)} preview budget` }
 			]);
 		}
 		if (e instanceof FitBusy) fail4xx(503, e.message, 'busy');
 		throw e;
 	}
+}
+
+/** The fit body (fit file) a preview request describes, built on a fit thread, with its input and output columns (for exports). */
+export async function previewFit(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
+	const { i, j, options } = previewInput(dataset, request);
+	const name = dataset.columns[j].name;
+	const result = await onThread<BuildResult>({ kind: 'build', x: dataset.data[i], columns: { [name]: dataset.data[j] }, fits: [{ method: request.method, options, outputs: [name] }] }, dataset.data[i].length, request.method);
+	if (!result.ok) fitProblem(result.problem);
+	return { fit: JSON.parse(result.fits[0][0]) as Record<string, unknown>, input: dataset.columns[i], output: dataset.columns[j] };
+}
+
+/** Fit, sample and audit one output of a curve dataset on a fit thread. Throws 422 naming the field or limit at fault. */
+export async function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): Promise<FitPreview> {
+	const { i, j, options } = previewInput(dataset, request);
+	const { data } = dataset;
+	const result = await onThread<PreviewResult>({ kind: 'preview', x: data[i], y: data[j], method: request.method, options, at: request.at }, data[i].length, request.method);
 	if (result.ok) return result.preview;
-	const problem = result.problem;
-	if (problem.kind === 'size') fail4xx(422, `method: ${problem.message}`, 'too-large', [{ field: 'method', problem: problem.message }]);
-	if (problem.kind === 'at') fail4xx(422, `at[${problem.index}]: ${problem.message}`, 'outside-domain', [{ field: `at.${problem.index}`, problem: problem.message }]);
-	const field = FIELD_OF[problem.code] ?? (problem.code === 'bad-option' ? 'options' : 'method');
-	fail4xx(422, `${field}: ${problem.message}`, 'fit-failed', [{ field, problem: problem.message }]);
+	fitProblem(result.problem);
 }

@@ -11,6 +11,8 @@ export type DatasetErrorCode =
 	| 'file-too-large'
 	| 'too-many-rows'
 	| 'too-many-columns'
+	| 'expands-too-far'
+	| 'over-budget'
 	| 'formula-without-value'
 	| 'sheet-not-found'
 	| 'unreadable-workbook'
@@ -20,7 +22,9 @@ export type DatasetErrorCode =
 const LIMIT_CODES: ReadonlySet<DatasetErrorCode> = new Set([
 	'file-too-large',
 	'too-many-rows',
-	'too-many-columns'
+	'too-many-columns',
+	'expands-too-far',
+	'over-budget'
 ]);
 
 /** Details kept on an error; more would only bloat the response. */

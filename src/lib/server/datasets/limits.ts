@@ -3,6 +3,15 @@ import { DatasetError } from './DatasetError';
 export const MAX_FILE_BYTES = 20 * 1024 * 1024;
 export const MAX_ROWS = 1_000_000;
 export const MAX_COLUMNS = 32;
+/**
+ * Largest expanded size of a workbook's parts (sheets, shared strings, styles…)
+ * as its ZIP directory declares them. A million rows of a few numbers is well
+ * under this; a decompression bomb (a small file expanding to gigabytes) is
+ * refused before anything is inflated.
+ */
+export const MAX_EXPANDED_BYTES = 96 * 1024 * 1024;
+/** Heap a table-reading thread may use; a workbook that lies about its sizes dies here, not in the server. */
+export const PARSE_HEAP_MB = 1536;
 
 const MB = 1024 * 1024;
 
@@ -31,4 +40,9 @@ export function tooManyRows(count: number | undefined, max = MAX_ROWS): DatasetE
 
 export function tooManyColumns(count: number, max = MAX_COLUMNS): DatasetError {
 	return new DatasetError('too-many-columns', `table has ${count} columns; the limit is ${max} columns`);
+}
+
+export function expandsTooFar(size: number, max = MAX_EXPANDED_BYTES): DatasetError {
+	const what = Number.isFinite(size) ? formatMegabytes(size) : 'an undeclared (ZIP64) size';
+	return new DatasetError('expands-too-far', `the workbook expands to ${what} of sheet data; the limit is ${formatMegabytes(max)} (save the sheet as CSV, or split it)`);
 }

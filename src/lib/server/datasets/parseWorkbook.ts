@@ -1,7 +1,8 @@
 import ExcelJS from 'exceljs';
 import { buildTable, type RawRecord } from './buildTable';
 import { DatasetError } from './DatasetError';
-import { MAX_ROWS, tooManyRows } from './limits';
+import { expandsTooFar, MAX_EXPANDED_BYTES, MAX_ROWS, tooManyRows } from './limits';
+import { zipEntrySizes } from './zipSizes';
 import type { Cell, ErrorDetail, ParsedTable } from './types';
 
 export interface WorkbookOptions {
@@ -19,6 +20,10 @@ export interface WorkbookOptions {
 export async function parseWorkbook(bytes: Uint8Array, options: WorkbookOptions = {}): Promise<ParsedTable> {
 	const notes = options.notes ?? [];
 	const warnings = options.warnings ?? [];
+	const entries = zipEntrySizes(bytes);
+	if (!entries) throw new DatasetError('unreadable-workbook', 'the file could not be read as an XLSX workbook (its ZIP directory is missing or damaged)');
+	const expanded = entries.reduce((sum, e) => sum + e.size, 0);
+	if (expanded > MAX_EXPANDED_BYTES) throw expandsTooFar(expanded);
 	const workbook = new ExcelJS.Workbook();
 	try {
 		// exceljs's typings ask for a Node Buffer; this one shares the upload's memory

@@ -11,7 +11,7 @@ import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { makeStarts } from '../../numerics/optimize/starts';
 import { getWithData } from '../datasetStore';
-import { buildFits, type BuildResult, type BuildTask } from '../fits/work';
+import { buildFits, type BuildResult, type BuildTask } from '../offload/fitWork';
 import { insertJobs, queueName } from './boss';
 import { auditJob, runsJob, startsPerJob, type StudyJob } from './jobs';
 import { packStarts } from './runner';

@@ -21,7 +21,8 @@ export class ThreadPool {
 		private readonly script: string | URL,
 		size: number,
 		private readonly workerData: unknown = undefined,
-		private readonly log: (msg: string) => void = (m) => console.error(m)
+		private readonly log: (msg: string) => void = (m) => console.error(m),
+		private readonly resourceLimits: import('node:worker_threads').ResourceLimits | undefined = undefined
 	) {
 		for (let i = 0; i < size; i++) this.slots.push(this.spawn());
 	}
@@ -36,7 +37,7 @@ export class ThreadPool {
 	}
 
 	private spawn(): Slot {
-		const worker = new Worker(this.script, { workerData: this.workerData });
+		const worker = new Worker(this.script, { workerData: this.workerData, ...(this.resourceLimits ? { resourceLimits: this.resourceLimits } : {}) });
 		let markReady: () => void = () => {};
 		const slot: Slot = { worker, busy: null, ready: new Promise<void>((r) => (markReady = r)), dead: false };
 		worker.on('message', (m: { ready?: true; ok?: boolean; result?: unknown; error?: string }) => {

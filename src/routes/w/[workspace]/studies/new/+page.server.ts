@@ -3,7 +3,7 @@ import { curveMethods } from '$lib/numerics/fits';
 import { workspaceAccess } from '$lib/server/access';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { buildFitsOnThread } from '$lib/server/fits/pool';
+import { buildFitsOnThread } from '$lib/server/offload/pool';
 import * as datasetStore from '$lib/server/datasetStore';
 import { formAction } from '$lib/server/forms';
 import { queueReady } from '$lib/server/studies/app';

@@ -3,7 +3,7 @@ import type { RequestHandler } from './$types';
 import { api, fail4xx, readJson } from '$lib/server/api';
 import { workspaceAccess } from '$lib/server/access';
 import { db } from '$lib/server/db';
-import { buildFitsOnThread } from '$lib/server/fits/pool';
+import { buildFitsOnThread } from '$lib/server/offload/pool';
 import { queueReady } from '$lib/server/studies/app';
 import { StudyRejected, launchStudy } from '$lib/server/studies/launch';
 import { studyInputSchema } from '$lib/server/studies/schema';

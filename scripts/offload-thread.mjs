@@ -1,7 +1,7 @@
-// Entry of a fit thread (src/lib/server/fits/pool.ts starts these): fit previews
+// Entry of a fit thread (src/lib/server/offload/pool.ts starts these): fit previews
 // and the fits a study launch builds run here, off the request thread. tsx loads
 // the TypeScript from source, as for scripts/study-thread.mjs.
 import { register } from 'tsx/esm/api';
 
 register();
-await import('../src/lib/server/fits/thread.ts');
+await import('../src/lib/server/offload/thread.ts');

@@ -9,7 +9,9 @@ import path from 'node:path';
 import { ThreadPool } from '../studies/threadPool';
 import { StudyRejected } from '../studies/launch';
 import { formatBudget, LAUNCH_BUILD_BUDGET_MS, MAX_WAITING } from './limits';
-import type { BuildResult, BuildTask, FitTask } from './work';
+import type { BuildResult, BuildTask, FitTask } from './fitWork';
+import type { ParseTask } from './tableWork';
+import { PARSE_HEAP_MB } from '../datasets/limits';
 
 /** KINKLESS_FIT_THREADS (default: one less than the cores, one or two). */
 const threads = () => Math.max(1, Number(process.env.KINKLESS_FIT_THREADS ?? Math.min(2, Math.max(1, os.availableParallelism() - 1))) || 1);
@@ -31,20 +33,23 @@ export class FitBusy extends Error {
 }
 
 function thePool(): ThreadPool {
-	pool ??= new ThreadPool(path.join(process.cwd(), 'scripts', 'fit-thread.mjs'), threads(), undefined, (m) => console.error(m.replace('study thread', 'fit thread')));
+	pool ??= new ThreadPool(path.join(process.cwd(), 'scripts', 'offload-thread.mjs'), threads(), undefined, (m) => console.error(m.replace('study thread', 'offload thread')), {
+		maxOldGenerationSizeMb: PARSE_HEAP_MB
+	});
 	return pool;
 }
 
 // A typed array may view a larger buffer; send only its own bytes.
 const compact = (a: Float64Array) => (a.byteOffset === 0 && a.byteLength === a.buffer.byteLength ? a : a.slice());
 
-function compactTask(task: FitTask): FitTask {
+function compactTask(task: FitTask | ParseTask): FitTask | ParseTask {
+	if (task.kind === 'parse') return task;
 	if (task.kind === 'preview') return { ...task, x: compact(task.x), y: compact(task.y) };
 	return { ...task, x: compact(task.x), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 }
 
 /** Run `task` on a fit thread within `budgetMs` of thread time. */
-export async function runOnFitThread<R>(task: FitTask, budgetMs: number): Promise<R> {
+export async function runOnFitThread<R>(task: FitTask | ParseTask, budgetMs: number): Promise<R> {
 	const p = thePool();
 	if (inFlight >= p.size + MAX_WAITING) throw new FitBusy();
 	inFlight++;
@@ -73,4 +78,9 @@ export async function buildFitsOnThread(task: BuildTask): Promise<BuildResult> {
 		if (e instanceof FitBusy) throw new StudyRejected([{ field: 'fits', problem: e.message }]);
 		throw e;
 	}
+}
+
+/** Start the offload threads at server start, so the first heavy request does not pay for their start-up. */
+export function startOffloadThreads(): Promise<void> {
+	return thePool().ready();
 }

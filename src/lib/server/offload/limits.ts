@@ -8,6 +8,8 @@ import type { CurveMethod } from '../../numerics/fits/types';
 
 /** Wall-clock budget of one fit preview (fit, audits, samples) on a fit thread (KINKLESS_FIT_BUDGET_MS). */
 export const PREVIEW_BUDGET_MS = Number(process.env.KINKLESS_FIT_BUDGET_MS) > 0 ? Number(process.env.KINKLESS_FIT_BUDGET_MS) : 20_000;
+/** Wall-clock budget for reading one uploaded table (CSV, TSV, XLSX). */
+export const PARSE_BUDGET_MS = 30_000;
 /** Wall-clock budget for building all the fits of one study launch. */
 export const LAUNCH_BUILD_BUDGET_MS = 30_000;
 /** Requests waiting for a fit thread before new ones are told to retry (503). */

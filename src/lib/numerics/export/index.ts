@@ -1,0 +1,3 @@
+export * from './fitExport';
+export { generatePython, generateTypeScript } from './codegen';
+export { registerEmitter, registeredRepresentations, type CodeEmitter, type EmitContext } from './emitters';

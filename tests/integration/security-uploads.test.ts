@@ -1,0 +1,89 @@
+// Decompression bombs and huge tables never reach the request thread: a workbook
+// is refused from the sizes its ZIP directory declares before anything expands;
+// one that lies about them dies on a capped offload thread; CSV is read off the
+// request thread too. /api/health answers throughout. Real server, real PostgreSQL.
+import ExcelJS from 'exceljs';
+import JSZip from 'jszip';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { BASE, json, testDb } from './client';
+import { countDatasets, team, upload, type ErrorBody } from './datasetHelpers';
+
+afterAll(async () => {
+	await testDb().destroy();
+});
+
+/** A valid one-sheet workbook whose sheet XML is replaced by `rows` identical rows of two numbers. */
+async function bombWorkbook(rows: number, { lieAboutSize = false } = {}): Promise<Uint8Array> {
+	const wb = new ExcelJS.Workbook();
+	wb.addWorksheet('Sweep').addRow(['x', 'y']);
+	const zip = await JSZip.loadAsync(await wb.xlsx.writeBuffer());
+	const body: string[] = ['<?xml version="1.0" encoding="UTF-8" standalone="yes"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'];
+	body.push('<row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>');
+	// identical rows (OOXML allows rows and cells without addresses): they compress about 1,000 to 1
+	const row = '<row><c><v>1.5</v></c><c><v>2.5</v></c></row>';
+	body.push(row.repeat(rows));
+	body.push('</sheetData></worksheet>');
+	zip.file('xl/worksheets/sheet1.xml', body.join(''));
+	const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 9 } });
+	if (lieAboutSize) {
+		// rewrite every declared expanded size in the central directory to 1 KB
+		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+		for (let i = 0; i + 46 < bytes.byteLength; i++) if (view.getUint32(i, true) === 0x02014b50) view.setUint32(i + 24, 1024, true);
+	}
+	return bytes;
+}
+
+async function healthDuring<T>(work: Promise<T>): Promise<{ result: T; worst: number }> {
+	let done = false;
+	let worst = 0;
+	const finished = work.finally(() => (done = true));
+	while (!done) {
+		const t0 = performance.now();
+		const r = await fetch(`${BASE}/api/health`);
+		await r.arrayBuffer();
+		worst = Math.max(worst, performance.now() - t0);
+		await new Promise((res) => setTimeout(res, 25));
+	}
+	return { result: await finished, worst };
+}
+
+let t: Awaited<ReturnType<typeof team>>;
+beforeAll(async () => {
+	t = await team('bomb');
+});
+
+describe('upload limits hold before the work is done', () => {
+	it('a small workbook that expands to over 100 MB of sheet XML is refused at once with 413 naming the limit', async () => {
+		const bytes = await bombWorkbook(3_000_000);
+		expect(bytes.byteLength).toBeLessThan(20 * 1024 * 1024);
+		const before = await countDatasets(t.ws.id);
+		const t0 = performance.now();
+		const { result: r, worst } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'bomb.xlsx'));
+		const elapsed = performance.now() - t0;
+		expect(r.status).toBe(413);
+		const body = await json<ErrorBody>(r);
+		expect(body.error.code).toBe('expands-too-far');
+		expect(body.error.message).toMatch(/the workbook expands to \d+(\.\d)? MB of sheet data; the limit is 96 MB/);
+		console.log(`bomb of ${(bytes.byteLength / 1024).toFixed(0)} KB: refused in ${elapsed.toFixed(0)} ms, worst health probe ${worst.toFixed(1)} ms`);
+		// refused from the directory, before any inflating: well under a second (the server froze for 42 s before)
+		expect(elapsed).toBeLessThan(5_000);
+		// the request thread never stalls (one probe on a loaded two-core machine may wait for a scheduler slice)
+		expect(worst).toBeLessThan(500);
+		expect(await countDatasets(t.ws.id)).toBe(before);
+	}, 120_000);
+
+	it('a workbook whose directory lies about its sizes is stopped by the thread limits, not the server', async () => {
+		const bytes = await bombWorkbook(3_000_000, { lieAboutSize: true });
+		const before = await countDatasets(t.ws.id);
+		const { result: r, worst } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'liar.xlsx'));
+		expect([413, 422]).toContain(r.status);
+		const body = await json<ErrorBody>(r);
+		expect(body.error.message).toMatch(/limit|MB|rows|could not be read/);
+		console.log(`lying bomb: ${r.status} ${body.error.code}: ${body.error.message.slice(0, 160)}; worst health probe ${worst.toFixed(1)} ms`);
+		expect(worst).toBeLessThan(500);
+		expect(await countDatasets(t.ws.id)).toBe(before);
+		// the server is fine afterwards: a small upload works
+		const ok = await upload(t.owner, t.ws.slug, 'x,y\n1,2\n2,3\n3,5\n', 'small.csv');
+		expect(ok.status).toBe(201);
+	}, 180_000);
+});
