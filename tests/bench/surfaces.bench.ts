@@ -14,7 +14,8 @@
  * - a 2-D study in-process: 6 fits (5 grid methods and rbf-thin-plate) ×
  *   2 optimizers (SQP, BFGS) × 50 Latin-hypercube starts on a tabulated
  *   Rosenbrock function: runs per second (fitting included, no database).
- * Ratios are ours / SciPy (below 1: ours is faster). Each timing is the median of BENCH_REPS (default 3).
+ * Ratios are ours / SciPy (below 1: ours is faster). Each timing is the median of BENCH_REPS (default 3) after one warm-up
+ * call (the RBF build is timed once: it takes seconds).
  */
 import { runScipy } from '../reference/scipy';
 import { fitGrid, fitScatter } from '../../src/lib/numerics/fits';
@@ -28,6 +29,8 @@ const REPS = Number(process.env.BENCH_REPS ?? 3);
 const rnd = mulberry32(2026);
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 function time(fn: () => void): number {
+	// one untimed warm-up call, so the JIT has compiled the path (SciPy's side is compiled code from the start)
+	fn();
 	const out: number[] = [];
 	for (let r = 0; r < REPS; r++) {
 		const t0 = performance.now();
