@@ -98,8 +98,8 @@ describe('datasets in the browser', () => {
 		await expect(page.getByTestId('smoothness').textContent()).resolves.toMatch(/declared\s*C1/);
 
 		// the table sorts by a column
-		await page.getByRole('button', { name: /efficiency eta/ }).click();
-		await page.getByRole('button', { name: /efficiency eta/ }).click();
+		await page.getByTestId('data-table').getByRole('button', { name: /efficiency eta/ }).click();
+		await page.getByTestId('data-table').getByRole('button', { name: /efficiency eta/ }).click();
 		const firstRow = page.getByTestId('data-table').locator('tbody tr').first();
 		await expect(firstRow.locator('td').nth(1).textContent()).resolves.toBe('0.82');
 
