@@ -293,16 +293,28 @@ export class RadialBasis implements SurfaceFit {
 		const kj = this.kj;
 		let f = this.tailValue();
 		grad.fill(0, 0, d);
-		for (let j = 0, o = 0; j < this.coefficients.length; j++, o += d) {
+		const e2 = this.e2;
+		const coef = this.coefficients;
+		const thin = this.kind === 'thin-plate';
+		for (let j = 0, o = 0; j < coef.length; j++, o += d) {
 			let s = 0;
 			for (let k = 0; k < d; k++) {
 				const t = u[k] - c[o + k];
 				s += t * t;
 			}
-			kernelJet(this.kind, this.e2, s, kj);
-			const cj = this.coefficients[j];
-			f += cj * kj[0];
-			const w = 2 * cj * kj[1];
+			const cj = coef[j];
+			let w: number;
+			if (thin) {
+				// inlined thin-plate g and g′ (the hot loop of batch evaluation)
+				if (s === 0) continue;
+				const L = Math.log(e2 * s);
+				f += cj * 0.5 * e2 * s * L;
+				w = cj * e2 * (L + 1);
+			} else {
+				kernelJet(this.kind, e2, s, kj);
+				f += cj * kj[0];
+				w = 2 * cj * kj[1];
+			}
 			for (let k = 0; k < d; k++) grad[k] += w * (u[k] - c[o + k]);
 		}
 		for (let k = 0; k < d; k++) grad[k] = (grad[k] + (this.tail.length > 1 ? this.tail[k + 1] : 0)) / this.span[k];
