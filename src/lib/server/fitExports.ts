@@ -1,6 +1,7 @@
 // Exports of a fit in the formats the export routes serve: the fit file
 // (JSON), generated Python and TypeScript, and a dense CSV sampling of
 // x, f, f′, f″. The document itself is built by $lib/numerics/export.
+import { csvText } from '$lib/csv';
 import { z } from 'zod';
 import { CAUTION } from '$lib/caution';
 import { createFitExport, fitExportText, generatePython, generateTypeScript, type FitExport, type FitExportSource } from '$lib/numerics/export';
@@ -42,11 +43,6 @@ export function safeFileStem(...parts: string[]): string {
 	return stem || 'fit';
 }
 
-/** A CSV cell: quoted when needed, and a leading = + - @ (spreadsheet formula) defused with a quote mark. */
-function csvText(s: string): string {
-	const t = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
-	return /[",\n\r]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t;
-}
 
 function unitOf(c: { unit: string | null }): string {
 	return c.unit ? ` [${c.unit}]` : '';
