@@ -12,6 +12,7 @@ export type DatasetErrorCode =
 	| 'too-many-rows'
 	| 'too-many-columns'
 	| 'expands-too-far'
+	| 'column-name-too-long'
 	| 'over-budget'
 	| 'formula-without-value'
 	| 'sheet-not-found'

@@ -1,5 +1,5 @@
 import { DatasetError } from './DatasetError';
-import { MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
+import { clipForMessage, formatCount, MAX_COLUMN_NAME, MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { parseNumber } from './parseNumber';
 import type { Cell, ParsedColumn, ParsedTable } from './types';
 
@@ -59,6 +59,13 @@ export function buildTable(records: RawRecord[], options: BuildOptions): ParsedT
 				const name = `col${i + 1}`;
 				warnings.push(`${options.columnLabel(keep[i])} has no name in the header; it is called ${name}`);
 				return { name, unit: null };
+			}
+			if (text.length > MAX_COLUMN_NAME) {
+				throw new DatasetError(
+					'column-name-too-long',
+					`${options.columnLabel(keep[i])} has a header of ${formatCount(text.length)} characters ("${clipForMessage(text, 40)}"); the limit is ${MAX_COLUMN_NAME}`,
+					[{ row: records[0].row, column: options.columnLabel(keep[i]), problem: `header longer than ${MAX_COLUMN_NAME} characters` }]
+				);
 			}
 			return splitNameAndUnit(text);
 		});

@@ -46,3 +46,14 @@ export function expandsTooFar(size: number, max = MAX_EXPANDED_BYTES): DatasetEr
 	const what = Number.isFinite(size) ? formatMegabytes(size) : 'an undeclared (ZIP64) size';
 	return new DatasetError('expands-too-far', `the workbook expands to ${what} of sheet data; the limit is ${formatMegabytes(max)} (save the sheet as CSV, or split it)`);
 }
+
+/** Longest column name (with its unit) a table may have. */
+export const MAX_COLUMN_NAME = 200;
+/** Longest piece of a user's cell that an error message quotes back. */
+export const MAX_QUOTED = 80;
+
+/** A user's text as an error message may quote it: at most MAX_QUOTED characters, the rest counted. */
+export function clipForMessage(text: string, max = MAX_QUOTED): string {
+	if (text.length <= max) return text;
+	return `${text.slice(0, max)}… (${formatCount(text.length)} characters)`;
+}

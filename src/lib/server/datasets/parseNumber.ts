@@ -1,3 +1,4 @@
+import { clipForMessage } from './limits';
 import type { Cell } from './types';
 
 // Plain decimal with optional exponent: 12, -0.5, .5, 5., 1e-3, +2.5E+4.
@@ -36,7 +37,7 @@ const PERCENT = /^[+-]?(?:\d+\.?\d*|\.\d+)\s*%$/;
 
 /** Why a non-empty cell is not a number, as a code and a phrase about the value. */
 export function describeNonNumber(text: string): { code: NonNumberCode; problem: string } {
-	const quoted = JSON.stringify(text);
+	const quoted = JSON.stringify(clipForMessage(text));
 	if (AMBIGUOUS_COMMA.test(text)) {
 		return {
 			code: 'thousands-separator',

@@ -1,4 +1,4 @@
-import { MAX_COLUMNS, MAX_ROWS, formatCount } from './limits';
+import { clipForMessage, MAX_COLUMNS, MAX_ROWS, formatCount } from './limits';
 import { describeNonNumber, parseNumber } from './parseNumber';
 import { rowList } from './rowList';
 import type { ParsedTable, Role, Shape, ValidationIssue, ValidationReport } from './types';
@@ -145,9 +145,9 @@ function readColumn(parsed: ParsedTable, j: number, out: Float64Array, errors: V
 		if (isEmpty) {
 			problems.push({ code: 'empty-cell', row, column: name, message: `row ${row}, column "${name}": the cell is empty` });
 		} else {
-			const value = String(cell);
+			const value = clipForMessage(String(cell));
 			const { code, problem } =
-				typeof cell === 'number' ? { code: 'non-numeric', problem: `${value} is not a finite number` } : describeNonNumber(value);
+				typeof cell === 'number' ? { code: 'non-numeric', problem: `${value} is not a finite number` } : describeNonNumber(String(cell));
 			problems.push({ code, row, column: name, value, message: `row ${row}, column "${name}": ${problem}` });
 		}
 	}
