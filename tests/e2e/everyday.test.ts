@@ -201,7 +201,8 @@ describe('everyday use in the browser', () => {
 			await page.getByRole('status').filter({ hasText: 'Link revoked.' }).waitFor();
 			expect((await other.goto(url))?.status()).toBe(404);
 			await expect(other.getByText('your workspaces').count()).resolves.toBe(0);
-			await expect(other.getByTestId('signed-out-links').textContent()).resolves.toMatch(/revoked.*Sign in/s);
+			await expect(other.locator('main').textContent()).resolves.toMatch(/revoked/);
+			await expect(other.getByTestId('signed-out-links').textContent()).resolves.toMatch(/Kinkless home.*Sign in/s);
 			await checkPage(other, 'shared-revoked');
 			for (const [name, path] of [
 				['landing', '/'],
