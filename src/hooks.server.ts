@@ -2,6 +2,7 @@ import { json, type Handle, type HandleServerError, type ServerInit } from '@sve
 import { auth } from '$lib/server/auth';
 import * as apiTokens from '$lib/server/apiTokens';
 import { errorBody } from '$lib/server/api';
+import { controlCharacterIn } from '$lib/text';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
 import { startOffloadThreads } from '$lib/server/offload/pool';
@@ -23,6 +24,16 @@ export const handle: Handle = async ({ event, resolve }) => {
 	event.locals.session = null;
 	event.locals.viaToken = false;
 	const isApi = event.url.pathname.startsWith('/api/');
+	// a path (slug, id) with a NUL or other control character names nothing here
+	let decodedPath = '';
+	try {
+		decodedPath = decodeURIComponent(event.url.pathname);
+	} catch {
+		decodedPath = '\u0000';
+	}
+	if (controlCharacterIn(decodedPath)) {
+		return isApi ? json(errorBody(404, 'not found', 'not-found'), { status: 404 }) : new Response('not found', { status: 404 });
+	}
 
 	const authz = event.request.headers.get('authorization');
 	const bearer = authz?.toLowerCase().startsWith('bearer ') ?? false;

@@ -1,4 +1,5 @@
 import { error, isHttpError, json, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import { findControlCharacter } from '$lib/text';
 import { z } from 'zod';
 import { zodDetails } from '$lib/schemas';
 
@@ -52,6 +53,8 @@ export async function readJson<S extends z.ZodType>(event: RequestEvent, schema:
 	} catch {
 		fail4xx(400, 'the request body is not valid JSON', 'bad-json');
 	}
+	const control = findControlCharacter(body);
+	if (control) fail4xx(422, `the request is not valid: ${control.path}: contains a control character (${control.found}); remove it`, 'invalid', [{ field: control.path, problem: `contains a control character (${control.found})` }]);
 	const parsed = schema.safeParse(body);
 	if (!parsed.success) fail4xx(422, 'the request is not valid: ' + parsed.error.issues.map((i) => `${i.path.join('.') || 'body'}: ${i.message}`).join('; '), 'invalid', zodDetails(parsed.error));
 	return parsed.data;

@@ -1,4 +1,5 @@
 import type { Db } from './db';
+import { isUuid } from '$lib/text';
 import { newSecret, sha256 } from './tokens';
 
 export type ApiTokenRow = { id: string; user_id: string; name: string; prefix: string; created_at: Date; last_used_at: Date | null; revoked_at: Date | null };
@@ -17,7 +18,7 @@ export const list = (db: Db, userId: string) =>
 
 /** Revoke one of the user's tokens; false when it is not theirs or already revoked. */
 export async function revoke(db: Db, userId: string, id: string): Promise<boolean> {
-	if (!/^[0-9a-f-]{36}$/i.test(id)) return false;
+	if (!isUuid(id)) return false;
 	const n = await db('api_tokens').where({ id, user_id: userId }).whereNull('revoked_at').update({ revoked_at: db.fn.now() });
 	return n > 0;
 }

@@ -1,10 +1,10 @@
 // Checked-but-unsaved uploads (see migrations/*_dataset_drafts.ts).
+import { isUuid } from '$lib/text';
 import type { Db } from './db';
 
 export type Draft = { id: string; kind: 'file' | 'paste'; filename: string | null; bytes: Uint8Array; createdAt: Date };
 
 const KEEP_HOURS = 24;
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 export async function create(
 	db: Db,
@@ -19,7 +19,7 @@ export async function create(
 
 /** A draft of this user in this workspace, or null (unknown, someone else's, or expired). */
 export async function get(db: Db, id: string, workspaceId: string, userId: string): Promise<Draft | null> {
-	if (!UUID.test(id)) return null;
+	if (!isUuid(id)) return null;
 	const row = await db('dataset_drafts')
 		.where({ id, workspace_id: workspaceId, created_by: userId })
 		.andWhere('created_at', '>=', db.raw(`now() - interval '${KEEP_HOURS} hours'`))

@@ -1,4 +1,5 @@
 // Datasets in PostgreSQL: metadata + column-major float64 data in one row.
+import { isUuid } from '../text';
 import type { Db } from './db';
 import type { Role, Shape } from './datasets/types';
 
@@ -118,14 +119,14 @@ export async function create(db: Db, d: NewDataset): Promise<DatasetMeta> {
 }
 
 export async function get(db: Db, id: string): Promise<DatasetMeta | null> {
-	if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+	if (!isUuid(id)) return null;
 	const row = await db('datasets').where({ id }).first(META_COLUMNS);
 	return row ? toMeta(row) : null;
 }
 
 /** Metadata plus the numbers, one Float64Array per column in column order. */
 export async function getWithData(db: Db, id: string): Promise<(DatasetMeta & { data: Float64Array[] }) | null> {
-	if (!/^[0-9a-f-]{36}$/i.test(id)) return null;
+	if (!isUuid(id)) return null;
 	const row = await db('datasets').where({ id }).first([...META_COLUMNS, 'data']);
 	if (!row) return null;
 	const meta = toMeta(row);

@@ -15,6 +15,8 @@ import {
 	type ValidationReport
 } from './datasets';
 import * as datasetStore from './datasetStore';
+import { controlCharacterIn } from '$lib/text';
+import { clipForMessage } from './datasets/limits';
 import { fail4xx } from './api';
 import type { ParseInput } from './datasets/parseTable';
 import { PARSE_HEAP_MB } from './datasets/limits';
@@ -98,11 +100,17 @@ export async function readBody(request: Request, max = MAX_UPLOAD_BODY): Promise
 export async function readMultipart(request: Request): Promise<FormData> {
 	const type = request.headers.get('content-type') ?? '';
 	const bytes = await readBody(request);
+	let form: FormData;
 	try {
-		return await new Response(bytes as Uint8Array<ArrayBuffer>, { headers: { 'content-type': type } }).formData();
+		form = await new Response(bytes as Uint8Array<ArrayBuffer>, { headers: { 'content-type': type } }).formData();
 	} catch {
 		throw new DatasetError('invalid-body', 'the multipart form body could not be read', [{ field: 'body', problem: 'not a valid multipart/form-data body' }]);
 	}
+	for (const [key, value] of form) {
+		const found = typeof value === 'string' ? controlCharacterIn(key) ?? controlCharacterIn(value) : controlCharacterIn(key);
+		if (found) throw new DatasetError('invalid-body', `the form field ${clipForMessage(JSON.stringify(key), 40)} contains a control character (${found}); remove it`, [{ field: key.slice(0, 80), problem: `contains a control character (${found})` }]);
+	}
+	return form;
 }
 
 const text = (form: FormData, key: string): string | undefined => {

@@ -2,6 +2,7 @@ import { fail, isHttpError } from '@sveltejs/kit';
 import type { z } from 'zod';
 import { zodDetails } from '$lib/schemas';
 import { formObject } from './api';
+import { findControlCharacter } from '$lib/text';
 
 /**
  * Run a form action: parse the form with the route's zod schema, run `fn`, and
@@ -11,6 +12,11 @@ import { formObject } from './api';
 export async function formAction<S extends z.ZodType, T>(request: Request, schema: S, fn: (input: z.output<S>) => Promise<T>) {
 	const raw = formObject(await request.formData());
 	const values = Object.fromEntries(Object.entries(raw).filter(([k]) => !/password|token/i.test(k)));
+	const control = findControlCharacter(raw);
+	if (control) {
+		const problem = `contains a control character (${control.found}); remove it`;
+		return fail(422, { message: `${control.path}: ${problem}`, details: [{ field: control.path, problem }], values: {} as Record<string, string> });
+	}
 	const parsed = schema.safeParse(raw);
 	if (!parsed.success) {
 		const details = zodDetails(parsed.error);

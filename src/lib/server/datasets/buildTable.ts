@@ -1,4 +1,5 @@
 import { DatasetError } from './DatasetError';
+import { controlCharacterIn } from '../../text';
 import { clipForMessage, formatCount, MAX_COLUMN_NAME, MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { parseNumber } from './parseNumber';
 import type { Cell, ParsedColumn, ParsedTable } from './types';
@@ -59,6 +60,12 @@ export function buildTable(records: RawRecord[], options: BuildOptions): ParsedT
 				const name = `col${i + 1}`;
 				warnings.push(`${options.columnLabel(keep[i])} has no name in the header; it is called ${name}`);
 				return { name, unit: null };
+			}
+			const control = controlCharacterIn(text);
+			if (control) {
+				throw new DatasetError('invalid-body', `${options.columnLabel(keep[i])}'s header contains a control character (${control}); remove it`, [
+					{ row: records[0].row, column: options.columnLabel(keep[i]), problem: `control character in the header (${control})` }
+				]);
 			}
 			if (text.length > MAX_COLUMN_NAME) {
 				throw new DatasetError(

@@ -1,4 +1,5 @@
 // ?fitId=&optimizer=&limit=&offset= on the runs lists, checked.
+import { isUuid } from '../../text';
 import { fail4xx } from '../api';
 import type { Study } from './store';
 
@@ -7,7 +8,7 @@ export function runsFilter(url: URL, study: Study): { fitId?: string; optimizer?
 	const out: { fitId?: string; optimizer?: number; limit?: number; offset?: number } = {};
 	const fitId = q.get('fitId');
 	if (fitId) {
-		if (!/^[0-9a-f-]{36}$/i.test(fitId)) fail4xx(422, 'fitId must be one of this study’s fit ids', 'invalid', [{ field: 'fitId', problem: 'not a fit id' }]);
+		if (!isUuid(fitId)) fail4xx(422, 'fitId must be one of this study’s fit ids', 'invalid', [{ field: 'fitId', problem: 'not a fit id' }]);
 		out.fitId = fitId;
 	}
 	const int = (name: 'optimizer' | 'limit' | 'offset', max: number) => {

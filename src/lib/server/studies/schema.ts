@@ -4,6 +4,7 @@
  * and then parsed by the same schema, so both get the same messages).
  * Relative imports only: scripts and worker threads load this through tsx.
  */
+import { UUID_PATTERN } from '../../text';
 import { z } from 'zod';
 import { curveMethods } from '../../numerics/fits/fitCurve';
 import type { CurveMethod } from '../../numerics/fits/types';
@@ -131,7 +132,7 @@ const startsSchema = z
 export const studyInputSchema = z
 	.object({
 		name: z.string({ error: 'name must be text' }).trim().min(1, { error: 'name cannot be empty' }).max(120, { error: 'name can be at most 120 characters' }).optional(),
-		datasetId: z.string({ error: 'datasetId is required' }).regex(/^[0-9a-f-]{36}$/i, { error: 'datasetId must be a dataset id' }),
+		datasetId: z.string({ error: 'datasetId is required' }).regex(UUID_PATTERN, { error: 'datasetId must be a dataset id' }),
 		output: z.string({ error: 'output is required: the output column to optimize' }).trim().min(1, { error: 'output is required: the output column to optimize' }).max(120),
 		problem: problemSchema,
 		fits: z.array(fitSchema, { error: 'fits must be a list of { method, options? }' }).min(1, { error: 'choose at least one fit' }).max(MAX_FITS, { error: `at most ${MAX_FITS} fits` }),
@@ -246,7 +247,7 @@ export function studyFromForm(raw: Record<string, string>): unknown {
 export const studyFormSchema = z.preprocess((raw) => studyFromForm(raw as Record<string, string>), studyInputSchema);
 
 export const pickSchema = z.object({
-	fitId: z.string({ error: 'fitId is required: the fit you pick' }).regex(/^[0-9a-f-]{36}$/i, { error: 'fitId must be one of this study’s fit ids' }),
+	fitId: z.string({ error: 'fitId is required: the fit you pick' }).regex(UUID_PATTERN, { error: 'fitId must be one of this study’s fit ids' }),
 	rationale: z
 		.string({ error: 'rationale is required: say why this fit' })
 		.trim()

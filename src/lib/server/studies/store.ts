@@ -12,7 +12,8 @@ import type { StudySpec } from './spec';
 
 type Db = Knex | Knex.Transaction;
 export type StudyStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
-export const isUuid = (id: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id);
+export { isUuid } from '../../text';
+import { isUuid } from '../../text';
 export const isActive = (s: StudyStatus) => s === 'queued' || s === 'running';
 
 export interface Study {
