@@ -10,6 +10,7 @@ import type { FitExport } from './fitExport';
 import { emitterFor, type EmitContext } from './emitters';
 import { pyFloat, pyString, tsNumber, tsString, wrapText } from './literals';
 import './curveEmitters';
+import './surfaceEmitters';
 
 const RULES: Record<string, string> = {
 	refuse: 'refuse: a point outside the domain is an error',

@@ -106,7 +106,7 @@ export function fitExportText(doc: FitExport): string {
 /**
  * Read an export document (object or text): format, version and checksum are
  * checked before anything else, each with its own message. The fit body is
- * returned as-is; rebuild it with `fitFromJSON` (curves) or the surface reader.
+ * returned as-is; rebuild it with `fitFromJSON` (curves) or `surfaceFromJSON` (surfaces).
  */
 export async function readFitExport(json: unknown): Promise<FitExport> {
 	let v = json;
@@ -139,7 +139,7 @@ export async function readFitExport(json: unknown): Promise<FitExport> {
 
 /**
  * Read an export document and rebuild its fit with `rebuild` (default: the
- * curve registry, `fitFromJSON`; surface readers pass their own).
+ * curve registry, `fitFromJSON`; for surface fits pass `surfaceFromJSON`).
  */
 export async function loadFitExport<F = CurveFit>(
 	json: unknown,

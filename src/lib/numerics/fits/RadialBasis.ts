@@ -22,7 +22,7 @@
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { FitError } from './FitError';
-import { FIT_FILE_FORMAT, FIT_FILE_VERSION, encodeArray } from './fitFile';
+import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, decodeNumber, encodeArray, encodeNumber } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
 import type { Continuity } from './types';
 
@@ -363,8 +363,11 @@ export class RadialBasis implements SurfaceFit {
 			version: FIT_FILE_VERSION,
 			method: this.method,
 			continuity: this.continuity,
+			extrapolation: this.extrapolation,
+			domain: this.domain.map((r) => encodeArray(r)),
 			representation: 'radial-basis',
 			options: { ...this.options },
+			stats: { condition: encodeNumber(this.stats.condition ?? NaN) },
 			lower: encodeArray(this.lo),
 			span: encodeArray(this.span),
 			centres: encodeArray(this.centres),
@@ -372,6 +375,65 @@ export class RadialBasis implements SurfaceFit {
 			tail: encodeArray(this.tail),
 			notes: [...this.notes]
 		};
+	}
+
+	/**
+	 * Rebuild a fit, bit for bit, from its fit file body (no solve: the stored
+	 * centres, coefficients, tail and scaling are the fit). The caller checks
+	 * the envelope (format, version, method); this checks the shapes.
+	 */
+	static fromJSON(json: unknown): RadialBasis {
+		const o = json as Record<string, unknown>;
+		if (!o || typeof o !== 'object' || o.representation !== 'radial-basis') throw new FitError('bad-fit-file', 'fit file: not a radial-basis fit');
+		const method = o.method as ScatterMethod;
+		if (!isScatterMethod(method)) throw new FitError('bad-fit-file', `fit file: unknown scattered method ${JSON.stringify(o.method)}`);
+		const lo = decodeArray(o.lower, 'lower');
+		const span = decodeArray(o.span, 'span');
+		const d = lo.length;
+		if (d < 1 || d > RBF_MAX_INPUTS || span.length !== d) throw new FitError('bad-fit-file', `fit file: lower and span must list the same 1–${RBF_MAX_INPUTS} inputs`);
+		for (let k = 0; k < d; k++) {
+			if (!Number.isFinite(lo[k]) || !(span[k] > 0) || !Number.isFinite(span[k])) throw new FitError('bad-fit-file', `fit file: span[${k}] must be a finite number > 0`);
+		}
+		const centres = decodeArray(o.centres, 'centres');
+		const coefficients = decodeArray(o.coefficients, 'coefficients');
+		const tail = decodeArray(o.tail, 'tail');
+		if (centres.length !== coefficients.length * d || coefficients.length < 1) throw new FitError('bad-fit-file', 'fit file: centres must hold one point of the fit’s inputs per coefficient');
+		if (tail.length !== 0 && tail.length !== 1 && tail.length !== d + 1) throw new FitError('bad-fit-file', `fit file: tail must have 0, 1 or ${d + 1} coefficients, got ${tail.length}`);
+		const opt = (o.options ?? {}) as Record<string, unknown>;
+		const epsilon = decodeNumber(opt.epsilon, 'options.epsilon');
+		if (!(epsilon > 0) || !Number.isFinite(epsilon)) throw new FitError('bad-fit-file', 'fit file: options.epsilon must be a finite number > 0');
+		const degree = tail.length === 0 ? -1 : tail.length === 1 ? 0 : 1;
+		const smoothing = opt.smoothing === undefined ? 0 : decodeNumber(opt.smoothing, 'options.smoothing');
+		const st = (o.stats ?? {}) as Record<string, unknown>;
+		const condition = st.condition === undefined ? NaN : decodeNumber(st.condition, 'stats.condition');
+		const kind = KERNEL[method];
+		const continuity: Continuity = kind === 'thin-plate' ? 'C1' : 'Cinf';
+		// why Object.create: the constructor solves for the coefficients; here they are given
+		const fit = Object.create(RadialBasis.prototype) as RadialBasis;
+		const hi = Array.from(lo, (l, k) => l + span[k]);
+		const domain = Array.isArray(o.domain) ? (o.domain as unknown[]).map((r, k) => decodeArray(r, `domain[${k}]`)) : null;
+		Object.assign(fit, {
+			method,
+			dimension: d,
+			continuity,
+			axisContinuity: Object.freeze(new Array<Continuity>(d).fill(continuity)),
+			hessian: kind === 'thin-plate' ? 'piecewise' : 'exact',
+			extrapolation: 'extend',
+			domain: Object.freeze(Array.from({ length: d }, (_, k) => Object.freeze([lo[k], domain?.[k]?.length === 2 ? domain[k][1] : hi[k]] as const))),
+			notes: Object.freeze(Array.isArray(o.notes) ? (o.notes as unknown[]).map(String) : []),
+			options: Object.freeze({ degree, smoothing, epsilon }),
+			stats: Object.freeze({ condition }),
+			centres,
+			coefficients,
+			tail,
+			kind,
+			e2: epsilon * epsilon,
+			lo,
+			span,
+			u: new Float64Array(d),
+			kj: new Float64Array(3)
+		});
+		return fit;
 	}
 }
 

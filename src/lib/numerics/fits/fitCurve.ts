@@ -18,6 +18,7 @@ import { BarycentricPolynomial, polynomialGlobal } from './polynomial-global';
 import { ScaledPolynomial, polynomialLeastSquares } from './polynomial-least-squares';
 import { smoothingSpline } from './smoothing-spline';
 import { softenedLinear } from './softened-linear';
+import { isSurfaceFitFile } from './surfaceFile';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod } from './types';
 
 export type CurveBuilder = (x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions) => CurveFit;
@@ -61,6 +62,7 @@ export function fitCurve(method: CurveMethod, x: ArrayLike<number>, y: ArrayLike
 /** Rebuild a fit, bit for bit, from its fit file (the object or its JSON text). */
 export function fitFromJSON(json: unknown): CurveFit {
 	const parsed = typeof json === 'string' ? safeParse(json) : json;
+	if (isSurfaceFitFile(parsed)) throw new FitError('bad-fit-file', 'fit file: this is a surface fit (several inputs); read it with surfaceFromJSON');
 	const h = readFitFileHeader(parsed);
 	switch (h.representation) {
 		case 'piecewise-polynomial':

@@ -25,3 +25,4 @@ export { prepareGrid, type PreparedGrid } from './prepareGrid';
 export { fitGrid, gridMethods, isGridMethod, gridLinear, gridCubicNatural, gridCubicNotAKnot, gridAkima, gridPchip, type GridBuilder, type GridMethodInfo } from './fitGrid';
 export { RadialBasis, fitScatter, isScatterMethod, RBF_MAX_INPUTS, RBF_CONDITION_WARNING, RBF_LOO_LIMIT } from './RadialBasis';
 export { classifyTable, type TableShape } from './classifyTable';
+export { surfaceFromJSON, isSurfaceFitFile, SURFACE_REPRESENTATIONS } from './surfaceFile';
