@@ -86,7 +86,7 @@ function bruteLoo(method: CurveMethod, x: number[], y: number[], options: CurveF
 }
 
 describe('overshoot and monotonicity on the RPN 14 data', () => {
-	// Fritsch & Carlson (1980) data, corroborated; the fit extrema are computed values from REFERENCES.md.
+	// Fritsch & Carlson (1980) data, corroborated; the fit extrema are computed values from docs/references.md.
 	it('PCHIP: no overshoot, monotone kept, no spurious extrema', () => {
 		const a = auditFidelity(fitCurve('pchip', RPN14.x, RPN14.y), RPN14.x, RPN14.y);
 		expect(a.dataMonotone).toBe('increasing');

@@ -1,6 +1,6 @@
 /**
  * Smoothness audit: exact one-sided limits at interior knots. Reference
- * values: REFERENCES.md, "Continuity, measured" (computed: right limit minus
+ * values: docs/references.md, "Continuity, measured" (computed: right limit minus
  * left limit at interior knots).
  */
 import { describe, expect, it } from 'vitest';
@@ -19,7 +19,7 @@ function maxD2(fit: CurveFit): { value: number; x: number } {
 	return best;
 }
 
-describe('measured f″ jumps (computed, REFERENCES.md)', () => {
+describe('measured f″ jumps (computed, docs/references.md)', () => {
 	it('RPN 14: PCHIP 19.488142613283706 at 8.09; Akima 4.8752623205853425 at 8.19', () => {
 		const p = maxD2(fitCurve('pchip', RPN14.x, RPN14.y));
 		expectClose(p.value, 19.488142613283706, 1e-12, 'pchip');

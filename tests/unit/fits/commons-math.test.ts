@@ -4,7 +4,7 @@
  *
  * It computes Akima's 1970 knot slopes at knots 2 … n−3, but at the first two
  * and the last two knots it uses three-point derivative estimates instead of
- * Akima's extension of the end secants (REFERENCES.md, "Cautions"; seen in its
+ * Akima's extension of the end secants (docs/references.md, "Cautions"; seen in its
  * source). So only intervals [x_i, x_{i+1}] with both ends among knots
  * 2 … n−3 are comparable. Its tie test is absolute (|w| < ε) with a
  * distance-weighted fallback, while ours follows SciPy (relative 1e-9 and the
@@ -46,7 +46,7 @@ describe('Akima vs commons-math-interpolation (interior intervals only)', () => 
 	});
 	it('near the ends the two differ, as documented: 70.625 vs 70.859375 at x = 9.5 (computed)', () => {
 		const theirs = createAkimaSplineInterpolator(AKIMA.x, AKIMA.y);
-		// computed (REFERENCES.md): commons-math 70.625, Akima 1970 / SciPy 70.859375
+		// computed (docs/references.md): commons-math 70.625, Akima 1970 / SciPy 70.859375
 		expectClose(theirs(9.5), 70.625, 1e-14);
 		expectClose(akima(AKIMA.x, AKIMA.y).evaluate(9.5).f, 70.859375, 1e-14);
 	});

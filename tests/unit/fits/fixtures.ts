@@ -1,6 +1,6 @@
 /**
  * Data sets shared by the curve-fit tests. Sources and confidence words as in
- * /work/shared/REFERENCES.md.
+ * docs/references.md.
  */
 import { mulberry32 } from '../../../src/lib/numerics/math';
 
@@ -19,7 +19,7 @@ export const AKIMA = {
 /** Burden & Faires, Numerical Analysis — eˣ at 0, 1, 2, 3 (edition/example from memory; coefficients computed). */
 export const EXP4 = { x: [0, 1, 2, 3], y: [1, Math.E, Math.E ** 2, Math.E ** 3] };
 
-/** The smoothing-spline table of REFERENCES.md: x_i = 0.25·i, y = sin x + 0.1·sin 37x (computed). */
+/** The smoothing-spline table of docs/references.md: x_i = 0.25·i, y = sin x + 0.1·sin 37x (computed). */
 export const SMOOTH25 = (() => {
 	const x: number[] = [];
 	const y: number[] = [];

@@ -27,14 +27,14 @@ describe('the equations themselves reproduce the verification tables', () => {
 		expectDigits(iapwsPsat(300), 0.353658941e-2, 9);
 		expectDigits(iapwsPsat(500), 0.263889776e1, 9);
 		expectDigits(iapwsPsat(600), 0.123443146e2, 9);
-		// computed (REFERENCES.md), to full precision
+		// computed (docs/references.md), to full precision
 		expectClose(iapwsPsat(500), 2.6388977562732219, 1e-15);
 	});
 	it('Table 36: T_s at 0.1, 1, 10 MPa (corroborated, 9 digits)', () => {
 		expectDigits(iapwsTsat(0.1), 0.372755919e3, 9);
 		expectDigits(iapwsTsat(1), 0.453035632e3, 9);
 		expectDigits(iapwsTsat(10), 0.584149488e3, 9);
-		// computed (REFERENCES.md), to full precision
+		// computed (docs/references.md), to full precision
 		expectClose(iapwsTsat(1), 453.03563239146661, 1e-14);
 	});
 	it('extras (computed): triple point, critical point, round trip', () => {

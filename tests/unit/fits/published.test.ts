@@ -1,5 +1,5 @@
 /**
- * Published check values (REFERENCES.md). Each value carries its source and
+ * Published check values (docs/references.md). Each value carries its source and
  * the confidence word given there: computed, corroborated or from memory.
  */
 import { describe, expect, it } from 'vitest';
@@ -212,7 +212,7 @@ describe('Modified Akima (Moler 2019) — formula and properties', () => {
 });
 
 describe('Polynomial reproduction on knots [0, 0.5, 1.7, 2, 3.3, 4] (computed)', () => {
-	// Source: REFERENCES.md "Continuity, measured" — computed.
+	// Source: docs/references.md "Continuity, measured" — computed.
 	const p = (x: number) => 2 * x ** 3 - 3 * x ** 2 + x - 5;
 	const dp = (x: number) => 6 * x ** 2 - 6 * x + 1;
 	const x = [0, 0.5, 1.7, 2, 3.3, 4];

@@ -148,7 +148,7 @@ describe('Newton for a stationary point (uses f″): C1 vs C2 on an invented une
  * IAPWS-IF97 saturation line as a real table. Source: IAPWS R7-97(2012) §8,
  * eq. (30) and Table 34 coefficients (corroborated); the backward value
  * T_s(1 MPa) = 453.035632 K is Table 36 (corroborated). Tabulate p_s on
- * 280–640 K every 20 K (REFERENCES.md's recipe), fit it, and solve "the
+ * 280–640 K every 20 K (docs/references.md's recipe), fit it, and solve "the
  * temperature where the fitted p_s equals 1 MPa".
  */
 const N = [

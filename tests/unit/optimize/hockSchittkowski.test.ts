@@ -22,7 +22,7 @@ let scipy: Record<string, ScipyRun>;
 const ours: Record<string, RunResult> = {};
 
 beforeAll(() => {
-	// SciPy SLSQP at ftol 1e-10: REFERENCES.md notes HS 71 converges there (status 8 at 1e-14)
+	// SciPy SLSQP at ftol 1e-10: docs/references.md notes HS 71 converges there (status 8 at 1e-14)
 	scipy = runScipy<Record<string, ScipyRun>>(
 		`${SCIPY_PROBLEMS_PY}
 out = {}
@@ -76,7 +76,7 @@ describe('HS 71 in detail', () => {
 		expect(r.kkt!.stationarity).toBeLessThanOrEqual(1e-8 * 17.014);
 		expect(r.kkt!.complementarity).toBeLessThanOrEqual(1e-8 * 17.014);
 		// with L = f + μ(25 − x₁x₂x₃x₄) + λ(Σx² − 40), stationarity in x₂ (1.3794 − 0.5523·5.2711 + 9.486λ = 0) makes λ positive
-		expectClose(r.multipliers!.constraints[1], 0.16146856677050575, 1e-6, 'HS 71 λ_eq (REFERENCES.md, computed; sign from our convention)');
+		expectClose(r.multipliers!.constraints[1], 0.16146856677050575, 1e-6, 'HS 71 λ_eq (docs/references.md, computed; sign from our convention)');
 		// the path's last row is the end point; the active set there names both constraints and the bound x₁ ≥ 1
 		const last = r.path.active[r.path.active.length - 1];
 		expect(last).toEqual(expect.arrayContaining(['c0', 'c1', 'lo0']));

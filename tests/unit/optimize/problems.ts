@@ -3,7 +3,7 @@
  * once in TypeScript and once in Python (for SciPy, run live), with their
  * published optima.
  *
- * Sources (confidence words as in REFERENCES.md):
+ * Sources (confidence words as in docs/references.md):
  * - W. Hock, K. Schittkowski, Test Examples for Nonlinear Programming Codes,
  *   LNEMS 187, Springer 1981 — statements and optima **corroborated**, each
  *   optimum checked against the KKT conditions (**computed**).
@@ -93,7 +93,7 @@ export const HS35: ReferenceProblem = {
 export const HS71: ReferenceProblem = {
 	name: 'HS 71',
 	// the published point is rounded (f there is 17.0140168); this is the KKT-accurate one
-	source: 'Hock & Schittkowski (1981) no. 71 — corroborated; KKT-accurate optimum and multipliers computed (REFERENCES.md)',
+	source: 'Hock & Schittkowski (1981) no. 71 — corroborated; KKT-accurate optimum and multipliers computed (docs/references.md)',
 	start: [1, 5, 5, 1],
 	xStar: [1, 4.7429996372644174, 3.8211499841848737, 1.3794082931726723],
 	fStar: 17.0140172891563,

@@ -17,7 +17,7 @@ interface ScipyRun {
 }
 
 const ONES = (n: number) => new Array<number>(n).fill(1);
-/** REFERENCES.md (computed): BFGS from (−1.2, 1, …) in 10-D stops at a non-global local minimum */
+/** docs/references.md (computed): BFGS from (−1.2, 1, …) in 10-D stops at a non-global local minimum */
 const LOCAL_10D = 3.98657911234714;
 
 let scipy: Record<string, ScipyRun>;
@@ -35,7 +35,7 @@ for key in data:
 	);
 });
 
-describe('Rosenbrock: reference values (Rosenbrock 1960; REFERENCES.md, computed)', () => {
+describe('Rosenbrock: reference values (Rosenbrock 1960; docs/references.md, computed)', () => {
 	it('f(−1.2, 1) = 24.2, ∇f = (−215.6, −88)', () => {
 		const e = rosenbrock(2).evaluate([-1.2, 1]);
 		expectClose(e.f, 24.2, 1e-14, 'f(−1.2, 1)');
@@ -60,14 +60,14 @@ describe('BFGS vs SciPy BFGS (live, gtol 1e-8)', () => {
 		expect(r.resets).toBe(0);
 	});
 
-	it('10-D from (−1.2, 1, …): ends at a genuine local minimum — global or the known local one (caution in REFERENCES.md)', () => {
+	it('10-D from (−1.2, 1, …): ends at a genuine local minimum — global or the known local one (caution in docs/references.md)', () => {
 		const r = bfgs({ kind: 'minimize', objective: rosenbrock(10) }, {}, rosenbrockStart(10));
 		expect(r.outcome, r.reason).toBe('converged'); // passed the second-order check
 		const global = Math.abs(r.f) < 1e-12;
 		const local = Math.abs(r.f - LOCAL_10D) < 1e-9;
 		expect(global || local, `f = ${r.f}`).toBe(true);
 		// SciPy's BFGS really does stop at the local minimum from this start
-		expectClose(scipy['rosen:10:classic|BFGS'].fun, LOCAL_10D, 1e-9, 'SciPy BFGS local minimum (REFERENCES.md, computed)');
+		expectClose(scipy['rosen:10:classic|BFGS'].fun, LOCAL_10D, 1e-9, 'SciPy BFGS local minimum (docs/references.md, computed)');
 	});
 });
 
@@ -99,7 +99,7 @@ describe('the other optimizers on 2-D Rosenbrock from (−1.2, 1)', () => {
 		expect(r.outcome, r.reason).toBe('converged');
 		expectAllClose(r.x, [1, 1], 1e-6, 'x*');
 		expect(r.evaluations.grad).toBe(0);
-		// SciPy 1.10 Nelder–Mead takes 85 iterations / 159 evaluations (REFERENCES.md, computed) at
+		// SciPy 1.10 Nelder–Mead takes 85 iterations / 159 evaluations (docs/references.md, computed) at
 		// its looser default tolerances (1e-4); ours stops at a 1e-8 simplex
 		expect(r.iterations).toBeLessThan(400);
 	});
