@@ -24,3 +24,38 @@ export async function launch(): Promise<{ context: BrowserContext; close: () => 
 		}
 	};
 }
+
+/** INVENTED coarse propeller sweep (not measured data): a minimum between knots, the browser tests' usual table. */
+export function propSweep(name: string) {
+	return {
+		name,
+		columns: [
+			{ name: 'J', unit: '-', role: 'input' },
+			{ name: 'eta', unit: '-', role: 'output' }
+		],
+		rows: [
+			[0.1, 0.3],
+			[0.3, 0.58],
+			[0.5, 0.74],
+			[0.7, 0.83],
+			[0.9, 0.86],
+			[1.1, 0.8],
+			[1.3, 0.62],
+			[1.5, 0.3]
+		]
+	};
+}
+
+/** Sign up and sign in through the API in the browser's cookie jar, create a workspace and a dataset; their slug and id. */
+export async function apiTeamWithDataset(context: BrowserContext, who: { email: string; password: string; name: string; workspace: string }, dataset: unknown): Promise<{ slug: string; datasetId: string }> {
+	const { email, password, name } = who;
+	const check = (status: number, want: number, what: string) => {
+		if (status !== want) throw new Error(`${what}: expected ${want}, got ${status}`);
+	};
+	check((await context.request.post('/api/v1/users', { data: { email, password, name } })).status(), 201, 'sign-up');
+	check((await context.request.post('/api/v1/session', { data: { email, password } })).status(), 200, 'sign-in');
+	const slug = (await (await context.request.post('/api/v1/workspaces', { data: { name: who.workspace } })).json()).slug;
+	const ds = await context.request.post(`/api/v1/workspaces/${slug}/datasets`, { data: dataset });
+	check(ds.status(), 201, 'dataset upload');
+	return { slug, datasetId: (await ds.json()).id };
+}

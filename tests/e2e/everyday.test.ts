@@ -8,7 +8,7 @@ import { createRequire } from 'node:module';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { launch } from './browser';
+import { apiTeamWithDataset, launch, propSweep } from './browser';
 
 const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 const SHOTS = '.data/screenshots';
@@ -20,24 +20,7 @@ let slug = '';
 let datasetId = '';
 let studyId = '';
 
-/** INVENTED coarse propeller sweep (not measured data). */
-const PROP = {
-	name: `Everyday prop ${tag} (invented)`,
-	columns: [
-		{ name: 'J', unit: '-', role: 'input' },
-		{ name: 'eta', unit: '-', role: 'output' }
-	],
-	rows: [
-		[0.1, 0.3],
-		[0.3, 0.58],
-		[0.5, 0.74],
-		[0.7, 0.83],
-		[0.9, 0.86],
-		[1.1, 0.8],
-		[1.3, 0.62],
-		[1.5, 0.3]
-	]
-};
+const PROP = propSweep(`Everyday prop ${tag} (invented)`);
 const NINE = ['linear', 'cubic-natural', 'cubic-not-a-knot', 'akima', 'akima-modified', 'pchip', 'local-cubic', 'polynomial-global', 'smoothing-spline'];
 
 async function waitDone(id: string) {
@@ -52,14 +35,7 @@ async function waitDone(id: string) {
 
 beforeAll(async () => {
 	({ context, close } = await launch());
-	const email = `everyday-${tag}@test.example`;
-	const password = 'everyday-password-1';
-	expect((await context.request.post('/api/v1/users', { data: { email, password, name: 'Everyday Person' } })).status()).toBe(201);
-	expect((await context.request.post('/api/v1/session', { data: { email, password } })).status()).toBe(200);
-	slug = (await (await context.request.post('/api/v1/workspaces', { data: { name: `Everyday ${tag}` } })).json()).slug;
-	const ds = await context.request.post(`/api/v1/workspaces/${slug}/datasets`, { data: PROP });
-	expect(ds.status()).toBe(201);
-	datasetId = (await ds.json()).id;
+	({ slug, datasetId } = await apiTeamWithDataset(context, { email: `everyday-${tag}@test.example`, password: 'everyday-password-1', name: 'Everyday Person', workspace: `Everyday ${tag}` }, PROP));
 	const st = await context.request.post(`/api/v1/workspaces/${slug}/studies`, {
 		data: { name: `Nine fits ${tag}`, datasetId, output: 'eta', problem: { kind: 'maximize' }, fits: NINE.map((method) => ({ method })), optimizers: [{ method: 'sqp' }], starts: { latinHypercube: 16, seed: 3 } }
 	});

@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Download, Page } from 'playwright-core';
 import { CAUTION } from '../../src/lib/caution';
 import { loadFitExport } from '../../src/lib/numerics/export';
-import { launch } from './browser';
+import { apiTeamWithDataset, launch, propSweep } from './browser';
 
 let context: BrowserContext;
 let close: () => Promise<void>;
@@ -20,35 +20,13 @@ let slug = '';
 let studyId = '';
 const SHOTS = '.data/screenshots';
 
-/** INVENTED coarse propeller sweep (not measured data). */
-const PROP = {
-	name: `Export sweep ${tag} (invented)`,
-	columns: [
-		{ name: 'J', unit: '-', role: 'input' },
-		{ name: 'eta', unit: '-', role: 'output' }
-	],
-	rows: [
-		[0.1, 0.3],
-		[0.3, 0.58],
-		[0.5, 0.74],
-		[0.7, 0.83],
-		[0.9, 0.86],
-		[1.1, 0.8],
-		[1.3, 0.62],
-		[1.5, 0.3]
-	]
-};
+const PROP = propSweep(`Export sweep ${tag} (invented)`);
 
 beforeAll(async () => {
 	({ context, close } = await launch());
-	const email = `exports-${tag}@test.example`;
-	const password = 'export-password-1';
-	expect((await context.request.post('/api/v1/users', { data: { email, password, name: 'Export Person' } })).status()).toBe(201);
-	expect((await context.request.post('/api/v1/session', { data: { email, password } })).status()).toBe(200);
-	slug = (await (await context.request.post('/api/v1/workspaces', { data: { name: `Export Team ${tag}` } })).json()).slug;
-	const ds = await context.request.post(`/api/v1/workspaces/${slug}/datasets`, { data: PROP });
-	expect(ds.status()).toBe(201);
-	const datasetId = (await ds.json()).id;
+	const team = await apiTeamWithDataset(context, { email: `exports-${tag}@test.example`, password: 'export-password-1', name: 'Export Person', workspace: `Export Team ${tag}` }, PROP);
+	slug = team.slug;
+	const datasetId = team.datasetId;
 	const st = await context.request.post(`/api/v1/workspaces/${slug}/studies`, {
 		data: {
 			name: `Export study ${tag}`,

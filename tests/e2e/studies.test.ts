@@ -5,7 +5,7 @@ import { mkdirSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { BASE, launch } from './browser';
+import { apiTeamWithDataset, BASE, launch, propSweep } from './browser';
 
 let context: BrowserContext;
 let close: () => Promise<void>;
@@ -13,37 +13,12 @@ const tag = randomBytes(4).toString('hex');
 let slug = '';
 let datasetId = '';
 
-/** INVENTED coarse propeller sweep (not measured data). */
-const PROP = {
-	name: `Prop sweep ${tag} (invented)`,
-	columns: [
-		{ name: 'J', unit: '-', role: 'input' },
-		{ name: 'eta', unit: '-', role: 'output' }
-	],
-	rows: [
-		[0.1, 0.3],
-		[0.3, 0.58],
-		[0.5, 0.74],
-		[0.7, 0.83],
-		[0.9, 0.86],
-		[1.1, 0.8],
-		[1.3, 0.62],
-		[1.5, 0.3]
-	]
-};
+const PROP = propSweep(`Prop sweep ${tag} (invented)`);
 
 beforeAll(async () => {
 	({ context, close } = await launch());
 	// account, workspace and dataset through the API, sharing the browser's cookie jar
-	const email = `studies-${tag}@test.example`;
-	const password = 'study-password-1';
-	expect((await context.request.post('/api/v1/users', { data: { email, password, name: 'Study Person' } })).status()).toBe(201);
-	expect((await context.request.post('/api/v1/session', { data: { email, password } })).status()).toBe(200);
-	const ws = await context.request.post('/api/v1/workspaces', { data: { name: `Prop Team ${tag}` } });
-	slug = (await ws.json()).slug;
-	const ds = await context.request.post(`/api/v1/workspaces/${slug}/datasets`, { data: PROP });
-	expect(ds.status()).toBe(201);
-	datasetId = (await ds.json()).id;
+	({ slug, datasetId } = await apiTeamWithDataset(context, { email: `studies-${tag}@test.example`, password: 'study-password-1', name: 'Study Person', workspace: `Prop Team ${tag}` }, PROP));
 });
 afterAll(async () => {
 	await close?.();
