@@ -35,7 +35,7 @@ export const CURVE_METHOD_IDS = CURVE_METHOD_CHOICES.map((m) => m.id) as [CurveM
 
 export const EXTRAPOLATIONS = ['refuse', 'hold', 'linear', 'extend'] as const;
 
-/** The fit preview's answer (DESIGN.md, "API shapes"). */
+/** The fit preview's answer: the shape `POST /api/v1/datasets/:id/fit-preview` returns (README, "Datasets"). */
 export interface FitPreview {
 	method: CurveMethod;
 	continuity: {

@@ -1,7 +1,9 @@
 // Talks to the real server that `npm test` started (KINKLESS_TEST_URL) and to its
 // real database (DATABASE_URL). No mocks.
 import knex, { type Knex } from 'knex';
+import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
+import { createServer } from 'node:net';
 
 export const BASE = process.env.KINKLESS_TEST_URL ?? '';
 if (!BASE) throw new Error('KINKLESS_TEST_URL is not set: run the integration tests through `npm test`, which starts the server');
@@ -98,3 +100,44 @@ export const linkIn = (text: string, path: string) => {
 	if (!m) throw new Error(`no ${path} link in: ${text}`);
 	return { url: m[0], token: m[1] };
 };
+
+/** A free TCP port on loopback. */
+export const freePort = () =>
+	new Promise<number>((resolve) => {
+		const s = createServer().listen(0, '127.0.0.1', () => {
+			const { port } = s.address() as { port: number };
+			s.close(() => resolve(port));
+		});
+	});
+
+/**
+ * A second server of the same build with its own environment (entries set to
+ * undefined are removed), on its own port and mail-catcher port; resolves once
+ * it answers /api/health (any status).
+ */
+export async function secondServer(env: Record<string, string | undefined>): Promise<{ base: string; stop: () => void }> {
+	const port = await freePort();
+	const base = `http://127.0.0.1:${port}`;
+	const childEnv: Record<string, string | undefined> = { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: base, SMTP_CATCHER_PORT: String(await freePort()), ...env };
+	for (const k of Object.keys(childEnv)) if (childEnv[k] === undefined) delete childEnv[k];
+	const child = spawn('node', ['build'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
+	const stop = () => void child.kill('SIGKILL');
+	for (let i = 0; i < 150 && !(await fetch(`${base}/api/health`).catch(() => null)); i++) await new Promise((r) => setTimeout(r, 100));
+	return { base, stop };
+}
+
+/** Probe /api/health every 25 ms while `work` runs: its result and every probe's latency in ms (each probe must answer 200). */
+export async function healthDuring<T>(work: Promise<T>, base = BASE): Promise<{ result: T; latencies: number[] }> {
+	const latencies: number[] = [];
+	let done = false;
+	const finished = work.finally(() => (done = true));
+	while (!done) {
+		const t0 = performance.now();
+		const r = await fetch(`${base}/api/health`);
+		await r.arrayBuffer();
+		latencies.push(performance.now() - t0);
+		if (r.status !== 200) throw new Error(`/api/health answered ${r.status} while the work ran`);
+		await new Promise((res) => setTimeout(res, 25));
+	}
+	return { result: await finished, latencies };
+}

@@ -1,15 +1,6 @@
 import { spawn } from 'node:child_process';
-import { createServer } from 'node:net';
 import { describe, expect, it } from 'vitest';
-import { BASE } from './client';
-
-const freePort = () =>
-	new Promise<number>((resolve) => {
-		const s = createServer().listen(0, '127.0.0.1', () => {
-			const { port } = s.address() as { port: number };
-			s.close(() => resolve(port));
-		});
-	});
+import { BASE, freePort } from './client';
 
 describe('GET /api/health', () => {
 	it('answers ok with the database up', async () => {

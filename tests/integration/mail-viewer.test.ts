@@ -1,38 +1,20 @@
 // Issue: the caught-mail viewer must never show one account another's mail, and
 // must not exist outside local development. Against the real server and database.
-import { spawn } from 'node:child_process';
-import { createServer } from 'node:net';
 import { afterAll, describe, expect, it } from 'vitest';
-import { caughtMail, Client, linkIn, newUser, testDb } from './client';
+import { caughtMail, Client, linkIn, newUser, secondServer, testDb } from './client';
 
 afterAll(async () => {
 	await testDb().destroy();
 });
 
-const freePort = () =>
-	new Promise<number>((resolve) => {
-		const s = createServer().listen(0, '127.0.0.1', () => {
-			const { port } = s.address() as { port: number };
-			s.close(() => resolve(port));
-		});
-	});
-
-/** A second app server with its own environment; answers `GET /dev/mail` anonymously. */
+/** `GET /dev/mail` anonymously on a second server started with `env` (local use by default). */
 async function devMailStatusWith(env: Record<string, string | undefined>): Promise<{ status: number; location: string | null }> {
-	const port = await freePort();
-	const childEnv: Record<string, string | undefined> = { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, KINKLESS_LOCAL: '1', SMTP_CATCHER_PORT: String(await freePort()), ...env };
-	for (const k of Object.keys(childEnv)) if (childEnv[k] === undefined) delete childEnv[k];
-	const child = spawn('node', ['build'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
+	const server = await secondServer({ KINKLESS_LOCAL: '1', ...env });
 	try {
-		for (let i = 0; i < 150; i++) {
-			const up = await fetch(`http://127.0.0.1:${port}/api/health`).catch(() => null);
-			if (up) break;
-			await new Promise((r) => setTimeout(r, 100));
-		}
-		const r = await fetch(`http://127.0.0.1:${port}/dev/mail`, { redirect: 'manual' });
+		const r = await fetch(`${server.base}/dev/mail`, { redirect: 'manual' });
 		return { status: r.status, location: r.headers.get('location') };
 	} finally {
-		child.kill('SIGKILL');
+		server.stop();
 	}
 }
 

@@ -2,10 +2,8 @@
 // fit building goes to a fit thread with a time budget, methods that break down
 // past a size are refused with the reason, and /api/health keeps answering.
 // Real server, real PostgreSQL.
-import { spawn } from 'node:child_process';
-import { createServer } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BASE, json, testDb } from './client';
+import { healthDuring, json, secondServer, testDb } from './client';
 import { team, upload, type Created, type ErrorBody } from './datasetHelpers';
 
 afterAll(async () => {
@@ -20,23 +18,6 @@ function bigCurve(n: number): string {
 		lines.push(`${(1000 + 9000 * x).toFixed(6)},${(40 * Math.sin(3 * x) + 0.3 * Math.sin(977 * x * x)).toFixed(6)}`);
 	}
 	return lines.join('\n') + '\n';
-}
-
-/** Probe /api/health every 25 ms while `work` runs; the probes' latencies in ms. */
-async function healthDuring(work: Promise<unknown>, base = BASE): Promise<number[]> {
-	const latencies: number[] = [];
-	let done = false;
-	const finished = work.finally(() => (done = true));
-	while (!done) {
-		const t0 = performance.now();
-		const r = await fetch(`${base}/api/health`);
-		await r.arrayBuffer();
-		latencies.push(performance.now() - t0);
-		expect(r.status).toBe(200);
-		await new Promise((res) => setTimeout(res, 25));
-	}
-	await finished;
-	return latencies;
 }
 
 const quantile = (a: number[], q: number) => [...a].sort((u, v) => u - v)[Math.min(a.length - 1, Math.floor(q * a.length))];
@@ -91,8 +72,7 @@ describe('fit work off the request thread', () => {
 			t.viewer.post(`/api/v1/datasets/${bigId}/fit-preview`, { output: 'torque', method: 'polynomial-least-squares', options: { degree: 12 } }),
 			t.viewer.post(`/api/v1/datasets/${bigId}/fit-preview`, { output: 'torque', method: 'akima' })
 		]);
-		const latencies = await healthDuring(heavy);
-		const answers = await heavy;
+		const { result: answers, latencies } = await healthDuring(heavy);
 		// each heavy request answers, as a result or as a 4xx naming its limit, never a 500
 		for (const a of answers) expect([200, 422]).toContain(a.status);
 		expect(latencies.length).toBeGreaterThan(3);
@@ -101,33 +81,18 @@ describe('fit work off the request thread', () => {
 	}, 120_000);
 });
 
-const freePort = () =>
-	new Promise<number>((resolve) => {
-		const s = createServer().listen(0, '127.0.0.1', () => {
-			const { port } = s.address() as { port: number };
-			s.close(() => resolve(port));
-		});
-	});
-
 describe('the time budget', () => {
 	it('a preview past its budget is stopped and answered 422 naming the limit; the server stays up', async () => {
 		// a second server of the same build with a 300 ms preview budget
-		const port = await freePort();
-		const base = `http://127.0.0.1:${port}`;
-		const child = spawn('node', ['build'], {
-			env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: base, KINKLESS_WORKERS: '0', KINKLESS_FIT_BUDGET_MS: '300', SMTP_CATCHER_PORT: String(await freePort()) },
-			stdio: 'ignore'
-		});
+		const { base, stop } = await secondServer({ KINKLESS_WORKERS: '0', KINKLESS_FIT_BUDGET_MS: '300' });
 		try {
-			for (let i = 0; i < 150 && !(await fetch(`${base}/api/health`).catch(() => null)); i++) await new Promise((r) => setTimeout(r, 100));
 			const cookie = [...t.viewer.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
 			const req = fetch(`${base}/api/v1/datasets/${bigId}/fit-preview`, {
 				method: 'POST',
 				headers: { cookie, 'content-type': 'application/json', origin: base },
 				body: JSON.stringify({ output: 'torque', method: 'smoothing-spline' })
 			});
-			const latencies = await healthDuring(req, base);
-			const r = await req;
+			const { result: r, latencies } = await healthDuring(req, base);
 			expect(r.status).toBe(422);
 			const body = await json<ErrorBody>(r);
 			expect(body.error.code).toBe('over-budget');
@@ -142,7 +107,7 @@ describe('the time budget', () => {
 			});
 			expect(ok.status).toBe(200);
 		} finally {
-			child.kill('SIGKILL');
+			stop();
 		}
 	}, 120_000);
 });

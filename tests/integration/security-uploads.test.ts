@@ -5,7 +5,7 @@
 import ExcelJS from 'exceljs';
 import JSZip from 'jszip';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BASE, json, testDb } from './client';
+import { healthDuring, json, testDb } from './client';
 import { countDatasets, team, upload, type ErrorBody } from './datasetHelpers';
 
 afterAll(async () => {
@@ -33,20 +33,6 @@ async function bombWorkbook(rows: number, { lieAboutSize = false } = {}): Promis
 	return bytes;
 }
 
-async function healthDuring<T>(work: Promise<T>): Promise<{ result: T; worst: number }> {
-	let done = false;
-	let worst = 0;
-	const finished = work.finally(() => (done = true));
-	while (!done) {
-		const t0 = performance.now();
-		const r = await fetch(`${BASE}/api/health`);
-		await r.arrayBuffer();
-		worst = Math.max(worst, performance.now() - t0);
-		await new Promise((res) => setTimeout(res, 25));
-	}
-	return { result: await finished, worst };
-}
-
 let t: Awaited<ReturnType<typeof team>>;
 beforeAll(async () => {
 	t = await team('bomb');
@@ -58,8 +44,9 @@ describe('upload limits hold before the work is done', () => {
 		expect(bytes.byteLength).toBeLessThan(20 * 1024 * 1024);
 		const before = await countDatasets(t.ws.id);
 		const t0 = performance.now();
-		const { result: r, worst } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'bomb.xlsx'));
+		const { result: r, latencies } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'bomb.xlsx'));
 		const elapsed = performance.now() - t0;
+		const worst = Math.max(...latencies);
 		expect(r.status).toBe(413);
 		const body = await json<ErrorBody>(r);
 		expect(body.error.code).toBe('expands-too-far');
@@ -75,7 +62,8 @@ describe('upload limits hold before the work is done', () => {
 	it('a workbook whose directory lies about its sizes is stopped by the thread limits, not the server', async () => {
 		const bytes = await bombWorkbook(3_000_000, { lieAboutSize: true });
 		const before = await countDatasets(t.ws.id);
-		const { result: r, worst } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'liar.xlsx'));
+		const { result: r, latencies } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'liar.xlsx'));
+		const worst = Math.max(...latencies);
 		expect([413, 422]).toContain(r.status);
 		const body = await json<ErrorBody>(r);
 		expect(body.error.message).toMatch(/limit|MB|rows|could not be read/);

@@ -21,7 +21,8 @@ import { fail4xx } from './api';
 import type { ParseInput } from './datasets/parseTable';
 import { PARSE_HEAP_MB } from './datasets/limits';
 import { PARSE_BUDGET_MS } from './offload/limits';
-import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import { OffloadBusy, OffloadOverBudget, runOffThread } from './offload/pool';
+import { ThreadLost } from './studies/threadPool';
 import type { ParseResult } from './offload/tableWork';
 
 /** Room for the multipart framing and the small fields that travel with the file. */
@@ -169,11 +170,11 @@ export async function parseSource(source: Source): Promise<ParsedTable> {
 		source.kind === 'file' ? { bytes: source.bytes, filename: source.filename, ...(source.sheet ? { sheet: source.sheet } : {}) } : { text: source.text };
 	let result: ParseResult;
 	try {
-		result = await runOnFitThread<ParseResult>({ kind: 'parse', input }, PARSE_BUDGET_MS);
+		result = await runOffThread<ParseResult>({ kind: 'parse', input }, PARSE_BUDGET_MS);
 	} catch (e) {
-		if (e instanceof FitOverBudget) throw new DatasetError('over-budget', `reading the file ${e.message} (the limit for one upload); save it as CSV, or split it`);
-		if (e instanceof FitBusy) fail4xx(503, e.message, 'busy');
-		if (e instanceof Error && /exited|crashed|memory/i.test(e.message)) {
+		if (e instanceof OffloadOverBudget) throw new DatasetError('over-budget', `reading the file ${e.message} (the limit for one upload); save it as CSV, or split it`);
+		if (e instanceof OffloadBusy) fail4xx(503, e.message, 'busy');
+		if (e instanceof ThreadLost && e.kind === 'died') {
 			throw new DatasetError('expands-too-far', `reading the file needed more than the ${PARSE_HEAP_MB} MB one upload may use; save the sheet as CSV, or split it`);
 		}
 		throw e;

@@ -5,7 +5,7 @@ import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview
 import type { CurveFitOptions, FitErrorCode } from '$lib/numerics/fits';
 import { fail4xx } from './api';
 import { formatBudget, PREVIEW_BUDGET_MS } from './offload/limits';
-import { FitBusy, FitOverBudget, runOnFitThread } from './offload/pool';
+import { OffloadBusy, OffloadOverBudget, runOffThread } from './offload/pool';
 import type { BuildResult, FitProblem, FitTask, PreviewResult } from './offload/fitWork';
 import type { DatasetMeta } from './datasetStore';
 
@@ -105,19 +105,19 @@ function fitProblem(problem: FitProblem): never {
 
 async function onThread<T>(task: FitTask, rows: number, method: string): Promise<T> {
 	try {
-		return await runOnFitThread<T>(task, PREVIEW_BUDGET_MS);
+		return await runOffThread<T>(task, PREVIEW_BUDGET_MS);
 	} catch (e) {
-		if (e instanceof FitOverBudget) {
+		if (e instanceof OffloadOverBudget) {
 			fail4xx(422, `the ${method} preview of ${rows.toLocaleString('en-US')} rows ${e.message} (the limit for one fit preview); thin the table or choose a cheaper method`, 'over-budget', [
 				{ field: 'method', problem: `over the ${formatBudget(PREVIEW_BUDGET_MS)} preview budget` }
 			]);
 		}
-		if (e instanceof FitBusy) fail4xx(503, e.message, 'busy');
+		if (e instanceof OffloadBusy) fail4xx(503, e.message, 'busy');
 		throw e;
 	}
 }
 
-/** The fit body (fit file) a preview request describes, built on a fit thread, with its input and output columns (for exports). */
+/** The fit body (fit file) a preview request describes, built on an offload thread, with its input and output columns (for exports). */
 export async function previewFit(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
 	const { i, j, options } = previewInput(dataset, request);
 	const name = dataset.columns[j].name;
@@ -126,7 +126,7 @@ export async function previewFit(dataset: DatasetMeta & { data: Float64Array[] }
 	return { fit: JSON.parse(result.fits[0][0]) as Record<string, unknown>, input: dataset.columns[i], output: dataset.columns[j] };
 }
 
-/** Fit, sample and audit one output of a curve dataset on a fit thread. Throws 422 naming the field or limit at fault. */
+/** Fit, sample and audit one output of a curve dataset on an offload thread. Throws 422 naming the field or limit at fault. */
 export async function fitPreview(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest): Promise<FitPreview> {
 	const { i, j, options } = previewInput(dataset, request);
 	const { data } = dataset;

@@ -1,5 +1,5 @@
 /**
- * The fit work that runs on a fit thread: a dataset fit preview (fit, audits,
+ * The fit work that runs on an offload thread: a dataset fit preview (fit, audits,
  * dense samples) and the fits a study launch builds. Pure computation on
  * arrays, answering plain data (never throwing for a user's mistake), so the
  * same code runs on a thread and, for the seed and benchmarks, in-process.
@@ -118,10 +118,10 @@ export function buildFits(task: BuildTask): BuildResult {
 	const out: string[][] = [];
 	for (let i = 0; i < task.fits.length; i++) {
 		const spec = task.fits[i];
+		const tooBig = sizeProblem(spec.method, task.x.length);
+		if (tooBig) return { ok: false, index: i, output: spec.outputs[0], problem: { kind: 'size', message: tooBig } };
 		const files: string[] = [];
 		for (const output of spec.outputs) {
-			const tooBig = sizeProblem(spec.method, task.x.length);
-			if (tooBig) return { ok: false, index: i, output, problem: { kind: 'size', message: tooBig } };
 			try {
 				files.push(JSON.stringify(fitCurve(spec.method, task.x, task.columns[output], spec.options).toJSON()));
 			} catch (e) {

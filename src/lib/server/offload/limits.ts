@@ -1,18 +1,18 @@
 /**
  * Cost limits of fit building, in one place. Every fit preview and every fit a
- * study launch builds runs on a fit thread (never on the request thread) within
+ * study launch builds runs on an offload thread (never on the request thread) within
  * a time budget; methods whose cost or meaning breaks down past a size are
  * refused up front with the reason. Relative imports only (loaded by threads).
  */
 import type { CurveMethod } from '../../numerics/fits/types';
 
-/** Wall-clock budget of one fit preview (fit, audits, samples) on a fit thread (KINKLESS_FIT_BUDGET_MS). */
+/** Wall-clock budget of one fit preview (fit, audits, samples) on an offload thread (KINKLESS_FIT_BUDGET_MS). */
 export const PREVIEW_BUDGET_MS = Number(process.env.KINKLESS_FIT_BUDGET_MS) > 0 ? Number(process.env.KINKLESS_FIT_BUDGET_MS) : 20_000;
 /** Wall-clock budget for reading one uploaded table (CSV, TSV, XLSX). */
 export const PARSE_BUDGET_MS = 30_000;
 /** Wall-clock budget for building all the fits of one study launch. */
 export const LAUNCH_BUILD_BUDGET_MS = 30_000;
-/** Requests waiting for a fit thread before new ones are told to retry (503). */
+/** Requests waiting for an offload thread before new ones are told to retry (503). */
 export const MAX_WAITING = 8;
 
 /** Largest number of data points per method, with the reason a user reads. */

@@ -1,12 +1,13 @@
 /**
- * The fit threads: every fit preview and every study launch's fit building runs
- * here, so a heavy fit never holds up the request thread (health checks and
- * other users keep their answers). A task past its time budget has its thread
- * terminated and replaced; a full queue answers "busy, retry".
+ * The offload threads: every fit preview, every study launch's fit building and
+ * every upload's parsing runs here, so heavy work never holds up the request
+ * thread (health checks and other users keep their answers). A task past its
+ * time budget has its thread terminated and replaced; a full queue answers
+ * "busy, retry"; the threads' heap is capped.
  */
 import os from 'node:os';
 import path from 'node:path';
-import { ThreadPool } from '../studies/threadPool';
+import { ThreadLost, ThreadPool } from '../studies/threadPool';
 import { StudyRejected } from '../studies/launch';
 import { formatBudget, LAUNCH_BUILD_BUDGET_MS, MAX_WAITING } from './limits';
 import type { BuildResult, BuildTask, FitTask } from './fitWork';
@@ -20,21 +21,22 @@ let pool: ThreadPool | null = null;
 let inFlight = 0;
 
 /** The task did not finish within its budget (its thread was stopped). */
-export class FitOverBudget extends Error {
+export class OffloadOverBudget extends Error {
 	constructor(readonly budgetMs: number) {
 		super(`did not finish within its ${formatBudget(budgetMs)} budget`);
 	}
 }
-/** Every fit thread is busy and the waiting line is full. */
-export class FitBusy extends Error {
+/** Every offload thread is busy and the waiting line is full. */
+export class OffloadBusy extends Error {
 	constructor() {
-		super('every fit thread is busy; retry in a few seconds');
+		super('every offload thread is busy; retry in a few seconds');
 	}
 }
 
 function thePool(): ThreadPool {
-	pool ??= new ThreadPool(path.join(process.cwd(), 'scripts', 'offload-thread.mjs'), threads(), undefined, (m) => console.error(m.replace('study thread', 'offload thread')), {
-		maxOldGenerationSizeMb: PARSE_HEAP_MB
+	pool ??= new ThreadPool(path.join(process.cwd(), 'scripts', 'offload-thread.mjs'), threads(), undefined, undefined, {
+		name: 'offload thread',
+		resourceLimits: { maxOldGenerationSizeMb: PARSE_HEAP_MB }
 	});
 	return pool;
 }
@@ -48,15 +50,15 @@ function compactTask(task: FitTask | ParseTask): FitTask | ParseTask {
 	return { ...task, x: compact(task.x), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 }
 
-/** Run `task` on a fit thread within `budgetMs` of thread time. */
-export async function runOnFitThread<R>(task: FitTask | ParseTask, budgetMs: number): Promise<R> {
+/** Run `task` on an offload thread within `budgetMs` of thread time. */
+export async function runOffThread<R>(task: FitTask | ParseTask, budgetMs: number): Promise<R> {
 	const p = thePool();
-	if (inFlight >= p.size + MAX_WAITING) throw new FitBusy();
+	if (inFlight >= p.size + MAX_WAITING) throw new OffloadBusy();
 	inFlight++;
 	try {
 		return await p.run<R>(compactTask(task), budgetMs);
 	} catch (e) {
-		if (e instanceof Error && /^timed out/.test(e.message)) throw new FitOverBudget(budgetMs);
+		if (e instanceof ThreadLost && e.kind === 'timeout') throw new OffloadOverBudget(budgetMs);
 		throw e;
 	} finally {
 		inFlight--;
@@ -64,18 +66,18 @@ export async function runOnFitThread<R>(task: FitTask | ParseTask, budgetMs: num
 }
 
 /**
- * A study launch's fit building on a fit thread, within LAUNCH_BUILD_BUDGET_MS.
+ * A study launch's fit building on an offload thread, within LAUNCH_BUILD_BUDGET_MS.
  * Over budget, the launch is refused naming the limit (nothing is stored yet).
  */
 export async function buildFitsOnThread(task: BuildTask): Promise<BuildResult> {
 	try {
-		return await runOnFitThread<BuildResult>(task, LAUNCH_BUILD_BUDGET_MS);
+		return await runOffThread<BuildResult>(task, LAUNCH_BUILD_BUDGET_MS);
 	} catch (e) {
-		if (e instanceof FitOverBudget) {
+		if (e instanceof OffloadOverBudget) {
 			const rows = task.x.length.toLocaleString('en-US');
 			throw new StudyRejected([{ field: 'fits', problem: `building ${task.fits.length} fit(s) of ${rows} rows ${e.message} (the limit for one launch); use fewer or cheaper fits, or thin the table` }]);
 		}
-		if (e instanceof FitBusy) throw new StudyRejected([{ field: 'fits', problem: e.message }]);
+		if (e instanceof OffloadBusy) throw new StudyRejected([{ field: 'fits', problem: e.message }]);
 		throw e;
 	}
 }

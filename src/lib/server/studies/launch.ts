@@ -46,7 +46,7 @@ export interface LaunchArgs {
 	queue?: string;
 	/** false: store the study but return its jobs instead of queueing them (the demo seed runs them itself) */
 	enqueue?: boolean;
-	/** builds the fits, on a fit thread in the app (default: in this thread, for the seed and scripts) */
+	/** builds the fits, on an offload thread in the app (default: in this thread, for the seed and scripts) */
 	buildFits?: (task: BuildTask) => Promise<BuildResult>;
 }
 
@@ -83,7 +83,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 	const bounds: [number, number][] = p.bounds ? p.bounds.map(([lo, hi]) => [lo ?? dataLo, hi ?? dataHi]) : [[dataLo, dataHi]];
 	if (!(bounds[0][0] < bounds[0][1])) reject('problem.bounds.0', `bounds [${fmt(bounds[0][0])}, ${fmt(bounds[0][1])}]: the lower bound must be below the upper bound`);
 
-	// Every fit (objective and constraint outputs) is built now, on a fit thread
+	// Every fit (objective and constraint outputs) is built now, on an offload thread
 	// when the caller gives one: bad options and too-small data are the caller's to fix.
 	const outputsNeeded = [input.output, ...constraints.map((c) => c.output)];
 	const task: BuildTask = {

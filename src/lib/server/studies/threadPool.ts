@@ -6,6 +6,16 @@
  */
 import { Worker } from 'node:worker_threads';
 
+/** A task whose thread ran out of time (`timeout`) or died under it (`died`: crash, exit, out of memory). */
+export class ThreadLost extends Error {
+	constructor(
+		readonly kind: 'timeout' | 'died',
+		message: string
+	) {
+		super(message);
+	}
+}
+
 type Pending = { resolve: (v: unknown) => void; reject: (e: Error) => void; timer: NodeJS.Timeout | null };
 type Slot = { worker: Worker; busy: Pending | null; ready: Promise<void>; dead: boolean };
 type Queued = { task: unknown; timeoutMs: number } & Pending;
@@ -22,7 +32,7 @@ export class ThreadPool {
 		size: number,
 		private readonly workerData: unknown = undefined,
 		private readonly log: (msg: string) => void = (m) => console.error(m),
-		private readonly resourceLimits: import('node:worker_threads').ResourceLimits | undefined = undefined
+		private readonly opts: { name?: string; resourceLimits?: import('node:worker_threads').ResourceLimits } = {}
 	) {
 		for (let i = 0; i < size; i++) this.slots.push(this.spawn());
 	}
@@ -37,7 +47,7 @@ export class ThreadPool {
 	}
 
 	private spawn(): Slot {
-		const worker = new Worker(this.script, { workerData: this.workerData, ...(this.resourceLimits ? { resourceLimits: this.resourceLimits } : {}) });
+		const worker = new Worker(this.script, { workerData: this.workerData, ...(this.opts.resourceLimits ? { resourceLimits: this.opts.resourceLimits } : {}) });
 		let markReady: () => void = () => {};
 		const slot: Slot = { worker, busy: null, ready: new Promise<void>((r) => (markReady = r)), dead: false };
 		worker.on('message', (m: { ready?: true; ok?: boolean; result?: unknown; error?: string }) => {
@@ -62,10 +72,10 @@ export class ThreadPool {
 			if (p) {
 				if (p.timer) clearTimeout(p.timer);
 				this.lost++;
-				p.reject(new Error(why));
+				p.reject(new ThreadLost('died', why));
 			}
 			if (this.closed || i < 0) return;
-			this.log(`kinkless: study thread ${why}; starting a new one`);
+			this.log(`kinkless: ${this.opts.name ?? 'study thread'} ${why}; starting a new one`);
 			const fresh = this.spawn();
 			this.slots[i] = fresh;
 			this.next(fresh);
@@ -102,7 +112,7 @@ export class ThreadPool {
 				if (slot.busy === q) {
 					slot.busy = null;
 					this.lost++;
-					q.reject(new Error(`timed out after ${Math.round(q.timeoutMs / 1000)} s`));
+					q.reject(new ThreadLost('timeout', `timed out after ${Math.round(q.timeoutMs / 1000)} s`));
 				}
 			}, q.timeoutMs);
 		});
