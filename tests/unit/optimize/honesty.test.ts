@@ -175,7 +175,9 @@ describe('honest endings, case by case', () => {
 		const r = optimize({ kind: 'minimize', objective }, 'bfgs', {}, [1, 0.5]);
 		expect(r.resets).toBeGreaterThan(0);
 		expect(r.outcome, r.reason).toBe('converged');
-		expect(r.x).toEqual([0, 2]);
+		// y on its bound exactly; x at 0 to rounding (common practice, no source)
+		expect(r.x[1]).toBe(2);
+		expect(Math.abs(r.x[0])).toBeLessThanOrEqual(1e-12);
 	});
 
 	it('at a non-smooth minimum (|x − 1| + 0.001x²) gradient methods stall at the kink, flagged, not converged', () => {

@@ -185,6 +185,18 @@ export function polynomialLeastSquares(x: ArrayLike<number>, y: ArrayLike<number
 		);
 	}
 	const xs = d.x;
+	// Solve for y − m, m the middle of y's range, and add m to the constant term
+	// afterwards (exact in exact arithmetic, the constant column is in the
+	// model): a large offset in y (absolute pressures, energies) would otherwise
+	// enter every Householder reflection and cost the slope coefficients the
+	// offset's rounding; y − m is exact for values near m (Sterbenz's lemma).
+	let yMin = Infinity;
+	let yMax = -Infinity;
+	for (let i = 0; i < n; i++) {
+		if (d.y[i] < yMin) yMin = d.y[i];
+		if (d.y[i] > yMax) yMax = d.y[i];
+	}
+	const yMid = 0.5 * yMin + 0.5 * yMax;
 	const center = 0.5 * (xs[0] + xs[n - 1]);
 	const scale = 0.5 * (xs[n - 1] - xs[0]);
 	const X = new Matrix(n, deg + 1);
@@ -197,13 +209,14 @@ export function polynomialLeastSquares(x: ArrayLike<number>, y: ArrayLike<number
 			X.set(i, k, p);
 			p *= t;
 		}
-		b.set(i, 0, r * d.y[i]);
+		b.set(i, 0, r * (d.y[i] - yMid));
 	}
 	const qr = new QrDecomposition(X);
 	if (!qr.isFullRank()) throw new FitError('singular', `polynomial-least-squares: the degree-${deg} design matrix is rank deficient`);
 	const beta = qr.solve(b);
 	const coefficients = new Float64Array(deg + 1);
 	for (let k = 0; k <= deg; k++) coefficients[k] = beta.get(k, 0);
+	coefficients[0] += yMid;
 	// Leverage: squared row norms of the thin Q.
 	const Q = qr.orthogonalMatrix;
 	const leverage = new Float64Array(n);

@@ -7,7 +7,7 @@
  * RunResult. Because the sentinel is thrown from inside `evaluate`, it also
  * stops third-party loops (fmin) that call the objective.
  */
-import { allFinite, norm2, normInf } from './linalg';
+import { allFinite, EPS, norm2, normInf } from './linalg';
 import type {
 	Evaluation,
 	Evaluations,
@@ -49,6 +49,11 @@ export const DEFAULT_SETTINGS: Omit<Settings, 'clock' | 'onIteration'> = {
 	maxMilliseconds: 10000,
 	secondOrderCheck: true
 };
+
+/** smallest gradTol honoured: about ten units of rounding (relative to the gradient scale) */
+export const MIN_GRAD_TOL = 1e-15;
+/** smallest step, f, feasibility and residual tolerance honoured (relative ones lose meaning below ε) */
+export const MIN_TOL = 1e-16;
 
 function defaultClock(): () => number {
 	const perf = (globalThis as { performance?: { now(): number } }).performance;
@@ -192,8 +197,12 @@ export class Run {
 	readonly path: Path = { x: [], f: [], grad: [], step: [], violation: [], merit: [], active: [] };
 	/** last accepted iterate */
 	current: Point | null = null;
-	/** the minimized function's value at the start (set by the first record) */
-	private f0 = NaN;
+	/** the first recorded point (the start) */
+	private startPoint: Point | null = null;
+	/** gradScale(), once computed */
+	private g0 = NaN;
+	/** gradTol clamped to what double precision can reach (see the constructor) */
+	readonly gradTol: number;
 	private readonly t0: number;
 	private startX: number[] = [];
 
@@ -249,6 +258,19 @@ export class Run {
 			secondOrderCheck: pick('secondOrderCheck', DEFAULT_SETTINGS.secondOrderCheck)
 		};
 		this.t0 = this.settings.clock();
+		// A relative gradient test below a few ulps cannot be met by any
+		// computed gradient: clamp it (and say so) rather than let the run
+		// chase rounding; the other tolerances only end runs as `stalled`.
+		const g = this.settings.gradTol;
+		this.gradTol = Number.isFinite(g) && g >= MIN_GRAD_TOL ? g : MIN_GRAD_TOL;
+		if (this.gradTol !== g) this.notes.push(`gradTol ${g} is below what double precision can reach; ${MIN_GRAD_TOL} used`);
+		for (const k of ['stepTol', 'fTol', 'feasTol', 'residualTol'] as const) {
+			const v = this.settings[k];
+			if (!(v >= MIN_TOL)) {
+				this.settings[k] = MIN_TOL;
+				this.notes.push(`${k} ${v} is below what double precision can reach; ${MIN_TOL} used`);
+			}
+		}
 	}
 
 	get constraintCount(): number {
@@ -372,20 +394,58 @@ export class Run {
 	}
 
 	/**
-	 * The scale of f for relative tolerances: max(1, min(|f(start)|, |f|)).
-	 * Relative, so that the test does not depend on f's units; the smaller of
-	 * the two, so that a run drifting to f → −∞ is not declared converged by a
-	 * tolerance growing with |f|.
+	 * The gradient scale of the first-order test: max(1, ‖∇F(start)‖∞), F the
+	 * minimized function (the user's ∇f for `solve` run as least squares).
+	 * A gradient, unlike f, does not change when a constant is added to f, so
+	 * the test ‖projected ∇F‖∞ ≤ gradTol·gradScale is invariant to an offset in
+	 * f, and relative to the start it follows a scaling of f (the floor 1 keeps
+	 * a start that is already nearly stationary from asking for more than
+	 * rounding allows). Nocedal & Wright (2006, §3.1 and the discussion of
+	 * stopping tests) base the test on the gradient, not on f; see
+	 * docs/references.md.
 	 */
-	fScale(p: Point): number {
-		const f0 = Number.isNaN(this.f0) ? Math.abs(p.f) : Math.abs(this.f0);
-		const v = Math.min(Number.isFinite(f0) ? f0 : Infinity, Math.abs(p.f));
-		return Number.isFinite(v) ? Math.max(1, v) : 1;
+	gradScale(): number {
+		if (Number.isNaN(this.g0)) {
+			const s = this.startPoint;
+			if (!s) return 1;
+			const g = this.mode === 'least-squares' ? s.peekUserGrad() : s.grad;
+			const v = normInf(g);
+			this.g0 = Number.isFinite(v) ? Math.max(1, v) : 1;
+		}
+		return this.g0;
 	}
 
-	/** the first-order tolerance at p: gradTol·fScale(p) */
-	gradTolAt(p: Point): number {
-		return this.settings.gradTol * this.fScale(p);
+	/** the first-order tolerance: gradTol·gradScale() (the same at every point of a run) */
+	gradTolAt(_p?: Point): number {
+		return this.gradTol * this.gradScale();
+	}
+
+	/**
+	 * The rounding level of f near p: a few units in the last place of |f|.
+	 * Differences of f below it are not information (what f-change tests,
+	 * line searches and probes must allow for); it grows with an offset in f
+	 * because the stored values lose their low digits, not because a
+	 * tolerance does.
+	 */
+	fNoise(f: number): number {
+		return Number.isFinite(f) ? 8 * EPS * Math.abs(f) : 0;
+	}
+
+	/**
+	 * How much lower f must be at a probe near p to count as a descent the
+	 * end-point checks believe: 1e-12 of the change of F over the run (at
+	 * least 1e-12), plus the rounding level of L0 — differences only, so an
+	 * offset in f changes nothing but the rounding term.
+	 */
+	fDropTol(p: Point, L0: number): number {
+		return 1e-12 * this.fChangeScale(p) + this.fNoise(L0);
+	}
+
+	/** max(1, |F(start) − F(p)|): the shift-invariant scale of f-change tests */
+	fChangeScale(p: Point): number {
+		const s = this.startPoint;
+		const change = s && Number.isFinite(s.f) && Number.isFinite(p.f) ? Math.abs(s.f - p.f) : 0;
+		return Math.max(1, change);
 	}
 
 	/**
@@ -399,7 +459,7 @@ export class Run {
 		if (this.mode === 'least-squares') {
 			if (this.residualMet(p)) return true;
 			const r = Math.abs(p.userF - this.target);
-			return measure / r <= this.settings.gradTol * Math.max(1, Math.abs(this.target));
+			return measure / r <= this.gradTolAt(p);
 		}
 		return measure <= this.gradTolAt(p);
 	}
@@ -443,7 +503,7 @@ export class Run {
 			for (let i = 0; i < this.n; i++) d[i] = p.x[i] - prev[i];
 			step = norm2(d);
 		}
-		if (!prev) this.f0 = p.f;
+		if (!prev) this.startPoint = p;
 		const rec: IterationRecord = {
 			iteration: this.path.x.length,
 			x: p.x.slice(),
