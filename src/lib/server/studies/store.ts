@@ -6,6 +6,7 @@
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';
+import { queueName } from './boss';
 import { unpackPath, type StoredPath } from './pathPack';
 import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
@@ -268,10 +269,20 @@ export async function runPath(db: Db, runId: string): Promise<{ studyId: string;
 	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
 }
 
-/** Cancel a queued or running study. Runs already stored stay. */
+/**
+ * Cancel a queued or running study. Runs already stored stay. Its jobs still waiting in
+ * the queue are cancelled in the same transaction, so they never hold a worker thread
+ * (before, every one of a large study's jobs was still fetched and skipped, one by one,
+ * ahead of other studies' work); a job in flight notices between two starts (runner.ts).
+ */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
-	const n = await db('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		const n = await trx('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
+		if (n > 0 && (await trx.raw(`SELECT to_regclass('pgboss.job') AS t`)).rows[0].t) {
+			await trx.raw(`UPDATE pgboss.job SET state = 'cancelled', completed_on = now() WHERE name = ? AND state < 'active' AND data->>'studyId' = ?`, [queueName(), id]);
+		}
+		return n > 0;
+	});
 }
 
 export async function pick(db: Db, studyId: string, fitId: string, rationale: string, userId: string): Promise<boolean> {
