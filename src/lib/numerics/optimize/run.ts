@@ -199,6 +199,8 @@ export class Run {
 	current: Point | null = null;
 	/** the first recorded point (the start) */
 	private startPoint: Point | null = null;
+	/** the error thrown by the objective inside its domain (propagated by guard) */
+	private objectiveFault: unknown = null;
 	/** gradScale(), once computed */
 	private g0 = NaN;
 	/** gradTol clamped to what double precision can reach (see the constructor) */
@@ -344,7 +346,11 @@ export class Run {
 			raw = this.problem.objective.evaluate(x.slice());
 		} catch (err) {
 			if (err instanceof Stop) throw err;
-			if (this.problem.objective.domain && !outside) throw err; // a fault inside the domain is a bug, not a refusal
+			if (this.problem.objective.domain && !outside) {
+				// a fault inside the domain is a bug of the objective, not a refusal: it propagates
+				this.objectiveFault = err;
+				throw err;
+			}
 			this.stop('left-domain', `objective refused x = ${fmt(x)}: ${err instanceof Error ? err.message : String(err)}`);
 		}
 		if (!raw || typeof raw.f !== 'number') throw new TypeError('objective.evaluate must return { f, grad }');
@@ -531,13 +537,21 @@ export class Run {
 		throw new Stop(outcome, reason, point);
 	}
 
-	/** run the optimizer body; a Stop becomes the result, anything else propagates */
+	/**
+	 * Run the optimizer body; a Stop becomes the result. A fault of the
+	 * objective inside its domain, and a bad start (before any evaluation),
+	 * propagate; any other error raised on the way (arithmetic that went
+	 * non-finite inside the optimizer or a library it drives) ends the run as
+	 * `diverged` with the error in the reason, so one run can never fail a study.
+	 */
 	guard(body: () => RunResult): RunResult {
 		try {
 			return body();
 		} catch (err) {
-			if (!(err instanceof Stop)) throw err;
-			return this.finish(err.point ?? this.current, err.outcome, err.reason);
+			if (err instanceof Stop) return this.finish(err.point ?? this.current, err.outcome, err.reason);
+			if (err === this.objectiveFault || (this.counts.f === 0 && err instanceof RangeError)) throw err;
+			const msg = err instanceof Error ? err.message : String(err);
+			return this.finish(this.current, 'diverged', `the computation broke down (${msg}); the last accepted point is reported`);
 		}
 	}
 
@@ -584,7 +598,9 @@ export class Run {
 		}
 		const kinkAt = this.problem.objective.kinkAt;
 		let atKink = false;
-		if (outcome === 'stalled' && kinkAt && allFinite(x)) {
+		// every run that ends on a knot where f′ jumps says so, whatever its optimizer and outcome
+		// (a derivative-free method can "converge" at the corner of a linear fit)
+		if (kinkAt && allFinite(x)) {
 			try {
 				atKink = !!kinkAt(x.slice());
 			} catch {
@@ -624,4 +640,35 @@ export function fmt(x: ArrayLike<number>): string {
 /** max-norm of x for relative step tests */
 export function scaleOf(x: number[]): number {
 	return 1 + normInf(x);
+}
+
+/**
+ * The record of a run whose optimizer threw (a fault of the objective, which
+ * `optimize` lets propagate): `diverged` at the start, with the error as the
+ * reason — what a study stores instead of failing.
+ */
+export function brokenRun(problem: Problem, optimizer: OptimizerName, start: number[], err: unknown): RunResult {
+	const n = problem.objective.n;
+	const x = Array.isArray(start) && start.length === n ? start.slice() : new Array<number>(n).fill(NaN);
+	const msg = err instanceof Error ? err.message : String(err);
+	return {
+		optimizer,
+		kind: problem.kind,
+		outcome: 'diverged',
+		reason: `the objective failed at or after the start (${msg})`,
+		atKink: false,
+		x,
+		f: NaN,
+		gradNorm: NaN,
+		iterations: 0,
+		evaluations: { f: 0, grad: 0, hess: 0, constraints: 0 },
+		resets: 0,
+		outsideEvaluations: 0,
+		multipliers: null,
+		kkt: null,
+		start: x.slice(),
+		ms: 0,
+		notes: [],
+		path: { x: [x.slice()], f: [NaN], grad: [new Array<number>(n).fill(NaN)], step: [0], violation: [0], merit: [NaN], active: [[]] }
+	};
 }

@@ -151,7 +151,7 @@ export interface RunResult {
 	outcome: Outcome;
 	/** one line: why the run ended */
 	reason: string;
-	/** stalled, and the last point is on a knot where f′ jumps */
+	/** the end point is on a knot where f′ jumps (any optimizer, any outcome) */
 	atKink: boolean;
 	x: number[];
 	/** the user's f at x */

@@ -18,6 +18,7 @@ import { auditSmoothness } from '../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../numerics/fits/types';
 import { optimize } from '../../numerics/optimize/optimize';
+import { brokenRun } from '../../numerics/optimize/run';
 import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../numerics/optimize/types';
 import { getWithData } from '../datasetStore';
 import { insertJobs } from './boss';
@@ -213,6 +214,20 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 	return out.length ? { status: out[0].status, inserted: out[0].inserted } : { status: null, inserted: 0 };
 }
 
+/**
+ * One run that can never fail its study: an error thrown by the fit or the
+ * optimizer is stored as a `diverged` run with the error as its reason (and
+ * logged), instead of failing the job and, after its retries, the study.
+ */
+function safeOptimize(problem: Problem, method: OptimizerName, options: OptimizeOptions, start: number[]): RunResult {
+	try {
+		return optimize(problem, method, options, start);
+	} catch (err) {
+		console.error(`study run (${method}) failed and is stored as diverged:`, err);
+		return brokenRun(problem, method, start, err);
+	}
+}
+
 async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs' }>, attempt: number): Promise<JobResult> {
 	const worker = ctx.worker ?? `${os.hostname()}/${process.pid}`;
 	const status = await markRunning(ctx.db, job.studyId);
@@ -264,7 +279,7 @@ async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs'
 		}
 		for (const o of optimizers) {
 			if (done.has(`${o.index}/${s}`)) continue;
-			batch.push(runRecord(p, job.fitId, o.index, s, optimize(p.problem, o.method, o.options, p.starts[s]), worker));
+			batch.push(runRecord(p, job.fitId, o.index, s, safeOptimize(p.problem, o.method, o.options, p.starts[s]), worker));
 		}
 		const now = Date.now();
 		if (s < job.to - 1 && now - t0 > softMs) {

@@ -24,6 +24,7 @@ export interface ScorecardRow {
 	optimizer: string;
 	optimizerIndex: number;
 	runs: number;
+	/** share of runs that converged away from a kink */
 	successRate: number;
 	medianIterations: number | null;
 	medianEvaluations: number | null;
@@ -53,6 +54,7 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 		`SELECT fit_id, optimizer, count(*)::int AS runs,
 			${OUTCOMES.map((o) => `count(*) FILTER (WHERE outcome = '${o}')::int AS "${o}"`).join(', ')},
 			count(*) FILTER (WHERE at_kink)::int AS at_kink,
+			count(*) FILTER (WHERE outcome = 'converged' AND NOT at_kink)::int AS converged_smooth,
 			percentile_cont(0.5) WITHIN GROUP (ORDER BY iterations) AS median_iterations,
 			percentile_cont(0.5) WITHIN GROUP (ORDER BY evals_f) AS median_evaluations,
 			min(f) FILTER (WHERE outcome = 'converged') AS f_lo, max(f) FILTER (WHERE outcome = 'converged') AS f_hi,
@@ -115,7 +117,9 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 				: null;
 		const monotone = monotoneOf(fit);
 		const continuity = { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.error ? null : (fit?.smoothness?.measured ?? null) };
-		const successRate = runs ? converged / runs : 0;
+		// a run that "converges" on a knot where f′ jumps (a derivative-free method at a corner of the
+		// fit) is counted at the kink, not as a success
+		const successRate = runs ? (s.converged_smooth as number) / runs : 0;
 		const optima = converged ? separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width) : null;
 		// the data's range of y (overshoot / overshootRelative) when the audit shows it, else the fit's own range over the bounds
 		const dataRange = fidelity?.overshoot && fidelity.overshootRelative ? fidelity.overshoot / fidelity.overshootRelative : null;
