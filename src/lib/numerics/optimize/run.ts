@@ -351,6 +351,8 @@ export class Run {
 				this.objectiveFault = err;
 				throw err;
 			}
+			// a refusal is an evaluation outside the data too (the one that ends the run)
+			this.outsideEvaluations++;
 			this.stop('left-domain', `objective refused x = ${fmt(x)}: ${err instanceof Error ? err.message : String(err)}`);
 		}
 		if (!raw || typeof raw.f !== 'number') throw new TypeError('objective.evaluate must return { f, grad }');
@@ -607,12 +609,16 @@ export class Run {
 				atKink = false;
 			}
 		}
+		// the end point lies outside the data: the fit there is its extrapolation rule, not the data
+		const outsideData = allFinite(x) && this.outsideDomain(x);
+		if (outsideData && outcome === 'converged') reason = `${reason} — outside the data, on the fit's extrapolation`;
 		return {
 			optimizer: this.optimizer,
 			kind: this.kind,
 			outcome,
 			reason,
 			atKink,
+			outsideData,
 			x,
 			f,
 			gradNorm: norm2(g),
@@ -657,6 +663,7 @@ export function brokenRun(problem: Problem, optimizer: OptimizerName, start: num
 		outcome: 'diverged',
 		reason: `the objective failed at or after the start (${msg})`,
 		atKink: false,
+		outsideData: false,
 		x,
 		f: NaN,
 		gradNorm: NaN,

@@ -153,6 +153,8 @@ export interface RunResult {
 	reason: string;
 	/** the end point is on a knot where f′ jumps (any optimizer, any outcome) */
 	atKink: boolean;
+	/** the end point lies outside `objective.domain` (the data's range): there the fit is its extrapolation rule */
+	outsideData: boolean;
 	x: number[];
 	/** the user's f at x */
 	f: number;

@@ -50,7 +50,7 @@ export interface LaunchArgs {
 	buildFits?: (task: BuildTask) => Promise<BuildResult>;
 }
 
-export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[] }> {
+export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[]; warnings: string[] }> {
 	const { input } = args;
 	const queue = args.queue ?? queueName();
 	const dataset = await getWithData(db, input.datasetId);
@@ -113,6 +113,18 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		return { fit, fitFile, constraintFiles };
 	});
 
+	// bounds beyond the data (allowed with an extrapolation rule other than refuse): say so at launch
+	const warnings: string[] = [];
+	{
+		const [lo, hi] = bounds[0];
+		if (lo < dataLo || hi > dataHi) {
+			const rules = [...new Set(built.map((b) => b.fit.extrapolation))].join(', ');
+			warnings.push(
+				`the bounds [${fmt(lo)}, ${fmt(hi)}] reach beyond the data [${fmt(dataLo)}, ${fmt(dataHi)}]: there the fits follow their extrapolation rule (${rules}), not the data, and runs that end there are flagged "outside the data"`
+			);
+		}
+	}
+
 	input.optimizers.forEach((o, i) => {
 		const caps = OPTIMIZERS[o.method];
 		if (!caps.kinds.includes(p.kind)) reject(`optimizers.${i}.method`, `${o.method} does not do ${p.kind} problems`);
@@ -144,6 +156,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		optimizers: input.optimizers.map((o) => ({ method: o.method, options: o.options ?? {} })),
 		starts: input.starts.points ? { points: input.starts.points } : input.starts.grid ? { grid: input.starts.grid } : { latinHypercube: input.starts.latinHypercube!, seed: input.starts.seed ?? 1 },
 		budgets,
+		...(warnings.length ? { warnings } : {}),
 		dataset: {
 			id: ds.id,
 			name: ds.name,
@@ -200,5 +213,5 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		if (args.enqueue !== false) for (let i = 0; i < jobs.length; i += 1000) await insertJobs(trx, jobs.slice(i, i + 1000));
 		return study.id as string;
 	});
-	return { id, status: 'queued', runs: runsTotal, jobs: queued };
+	return { id, status: 'queued', runs: runsTotal, jobs: queued, warnings };
 }

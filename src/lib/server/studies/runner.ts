@@ -158,7 +158,7 @@ const ADVANCE_SQL = `UPDATE studies SET
 		status = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN 'done' ELSE 'running' END,
 		finished_at = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN now() ELSE finished_at END`;
 
-const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
+const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, outside_data, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
 
 /** JSON has no NaN or ±Infinity; PostgreSQL's float8 input reads them as text. */
 const jnum = (v: number): number | string => (Number.isFinite(v) ? v : String(v));
@@ -171,6 +171,7 @@ function runRecord(p: Prepared, fitId: string, optimizer: number, startIndex: nu
 		start_index: startIndex,
 		outcome: r.outcome,
 		at_kink: r.atKink,
+		outside_data: r.outsideData === true,
 		reason: studyReason(r, p.wording).slice(0, 500),
 		iterations: r.iterations,
 		evals_f: r.evaluations.f,
@@ -198,9 +199,9 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 			SELECT id FROM studies WHERE id = :study AND status IN ('queued', 'running') FOR UPDATE
 		), ins AS (
 			INSERT INTO study_runs (${RUN_COLUMNS})
-			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
+			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.outside_data, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
 				r.x, r.f, r.grad_norm, r.ms, r.path_length, decode(r.path, 'base64'), r.worker
-			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, reason text,
+			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, outside_data boolean, reason text,
 				iterations int, evals_f int, evals_grad int, evals_hess int, x float8[], f float8, grad_norm float8, ms real, path_length int, path text, worker text)
 			WHERE EXISTS (SELECT 1 FROM s)
 			ON CONFLICT (study_id, fit_id, optimizer, start_index) DO NOTHING

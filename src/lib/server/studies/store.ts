@@ -140,6 +140,8 @@ export interface RunRow {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };
@@ -156,7 +158,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -173,6 +175,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		start: starts[r.start_index],
 		outcome: r.outcome,
 		atKink: r.at_kink,
+		outsideData: r.outside_data,
 		reason: r.reason,
 		iterations: r.iterations,
 		evaluations: { f: r.evals_f, grad: r.evals_grad },
@@ -200,6 +203,7 @@ export interface RunColumns {
 	start: number[];
 	outcome: string[];
 	atKink: boolean[];
+	outsideData: boolean[];
 	reason: string[];
 	iterations: number[];
 	evalsF: number[];
@@ -217,7 +221,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -233,6 +237,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		start: [],
 		outcome: [],
 		atKink: [],
+		outsideData: [],
 		reason: [],
 		iterations: [],
 		evalsF: [],
@@ -249,6 +254,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		out.start.push(r.start_index);
 		out.outcome.push(r.outcome);
 		out.atKink.push(r.at_kink);
+		out.outsideData.push(r.outside_data);
 		out.reason.push(r.reason);
 		out.iterations.push(r.iterations);
 		out.evalsF.push(r.evals_f);
