@@ -13,6 +13,7 @@
  * leave-one-out residuals e_i/(1 − h_ii).
  */
 import { Matrix, QrDecomposition } from 'ml-matrix';
+import { polynomialLimit } from '../math';
 import { FitError } from './FitError';
 import {
 	FIT_FILE_FORMAT,
@@ -99,8 +100,17 @@ export class ScaledPolynomial implements CurveFit {
 			case 'hold':
 				return { f: e.f, df: 0, d2f: 0, outside: true };
 			case 'linear':
-				return { f: e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
+				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
+				return { f: e.df === 0 ? e.f : e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
 			default: {
+				if (!Number.isFinite(x)) {
+					// the limits at ±∞ (t → ±∞ with x, the scale being positive)
+					const a = Array.from(this.coefficients);
+					const sign = below ? -1 : 1;
+					const d1 = a.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+					const d2 = d1.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+					return { f: polynomialLimit(a, sign), df: polynomialLimit(d1, sign), d2f: polynomialLimit(d2, sign), outside: true };
+				}
 				const j = this.evaluatePiece(0, x);
 				j.outside = true;
 				return j;
