@@ -168,4 +168,31 @@ describe('stopping rules: an offset in f changes no outcome (fast-check over fit
 			FUZZ
 		);
 	});
+
+	it('solve f = target and C + f = C + target, |C| up to 1e12: same outcome; converged roots agree to what the offset leaves of f', () => {
+		fc.assert(
+			fc.property(tableArb, fc.double({ min: 0, max: 12, noNaN: true }), fc.double({ min: 0.2, max: 0.8, noNaN: true }), (t, e, level) => {
+				const C = 10 ** e;
+				const Y = t.y.map((v) => C + v);
+				const yRef = Y.map((v) => v - C);
+				const lo = Math.min(...yRef);
+				const hi = Math.max(...yRef);
+				const target = lo + level * (hi - lo);
+				for (const o of OPTIMIZERS) {
+					const run = (y: number[], tg: number) => optimize({ kind: 'solve', target: tg, objective: curveObjective(fitOf(t, y)) }, o, OPTIONS, [t.start]);
+					const a = run(yRef, target);
+					const b = run(Y, C + target);
+					const l = `C = ${C} ${t.method} solve ${o} from ${t.start}`;
+					expect(b.outcome, `${l}: ${a.outcome} (${a.reason}) vs ${b.outcome} (${b.reason})`).toBe(a.outcome);
+					if (a.outcome !== 'converged' || b.outcome !== 'converged') continue;
+					// measured on the unshifted fit: the reference root to 1e-9 of the range, the offset one to f's rounding at C
+					const ref = fitOf(t, yRef);
+					const noise = 16 * EPS * C;
+					expect(Math.abs(ref.evaluate(a.x[0]).f - target), `${l} (reference)`).toBeLessThanOrEqual(1e-9 * Math.max(1, hi - lo));
+					expect(Math.abs(ref.evaluate(b.x[0]).f - target), `${l} (offset)`).toBeLessThanOrEqual(1e-9 * Math.max(1, hi - lo) + noise);
+				}
+			}),
+			FUZZ
+		);
+	});
 });

@@ -436,7 +436,12 @@ export class Run {
 	 * tolerance does.
 	 */
 	fNoise(f: number): number {
-		return Number.isFinite(f) ? 8 * EPS * Math.abs(f) : 0;
+		if (!Number.isFinite(f)) return 0;
+		if (this.mode !== 'least-squares') return 8 * EPS * Math.abs(f);
+		// F = ½r², r = f − target: the user's f carries 8ε(|target| + |r|), which F carries times |r|
+		const r = Math.sqrt(2 * Math.abs(f));
+		const d = 8 * EPS * (Math.abs(this.target) + r);
+		return r * d + d * d;
 	}
 
 	/**
@@ -472,8 +477,20 @@ export class Run {
 		return measure <= this.gradTolAt(p);
 	}
 
+	/**
+	 * The residual a `solve` run must reach: residualTol·max(1, |r(start)|)
+	 * plus the rounding level of the target. Relative to the starting residual,
+	 * not to |target|, so that adding a constant to f and to the target changes
+	 * nothing but that rounding term (with which a target of 1e9 can be met to
+	 * the digits f really has).
+	 */
+	residualTolerance(r0: number): number {
+		return this.settings.residualTol * Math.max(1, Number.isFinite(r0) ? r0 : 1) + 8 * EPS * Math.abs(this.target);
+	}
+
 	residualMet(p: Point): boolean {
-		return Math.abs(p.userF - this.target) <= this.settings.residualTol * Math.max(1, Math.abs(this.target));
+		const s = this.startPoint ?? p;
+		return Math.abs(p.userF - this.target) <= this.residualTolerance(Math.abs(s.userF - this.target));
 	}
 
 	/**

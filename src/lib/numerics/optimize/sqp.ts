@@ -233,13 +233,14 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 					break;
 				}
 				// within f's rounding level of φ(x) (a large offset in f rounds the decrease
-				// away): accept a step that keeps feasibility and brings the Lagrangian's slope
-				// along d down to 0.9 of its value at x (approximate Wolfe, Hager & Zhang 2005)
+				// away): accept a step that keeps feasibility and meets the derivative form of
+				// sufficient decrease, φ′(α) ≤ (2η − 1)φ′(0) (approximate Wolfe, Hager & Zhang
+				// 2005, exact for a quadratic), with φ′ the Lagrangian's slope along d
 				if (Number.isFinite(phi) && phi <= phi0 + run.fNoise(phi0) && mode === 'qp' && slopeL0 < 0) {
 					const Cq = q.constraints();
 					if (run.violation(Cq.values) <= Math.max(run.violation(C.values), feasTol)) {
 						const sq = lagrangianSlope(q, qp.lambda, d);
-						if (Math.abs(sq) <= -0.9 * slopeL0) {
+						if (sq <= (2 * ETA - 1) * slopeL0) {
 							accepted = q;
 							acceptedPhi = phi;
 							break;

@@ -90,7 +90,7 @@ export interface OptimizeOptions {
 	fTol?: number;
 	/** largest constraint violation accepted at a converged point (absolute) */
 	feasTol?: number;
-	/** `solve` problems: |f − target| ≤ residualTol·max(1, |target|) */
+	/** `solve` problems: |f − target| ≤ residualTol·max(1, |f(start) − target|) plus the target's rounding level */
 	residualTol?: number;
 	maxIterations?: number;
 	maxEvaluations?: number;
