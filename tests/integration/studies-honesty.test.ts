@@ -56,7 +56,7 @@ async function fitOf(studyId: string, fitId: string): Promise<CurveFit> {
 describe('a tolerance below double precision', () => {
 	it('conjugate-gradient (and the others) with gradTol 1e-300: the study finishes with every run stored and honest outcomes', { timeout: 180_000 }, async () => {
 		const tiny = { gradTol: 1e-300, stepTol: 1e-300, fTol: 1e-300 };
-		const { id } = await launchWith({
+		const { id, warnings } = await launchWith({
 			name: 'Tiny tolerances',
 			datasetId,
 			output: 'eta',
@@ -66,6 +66,9 @@ describe('a tolerance below double precision', () => {
 			starts: { latinHypercube: 12, seed: 3 },
 			budgets: { maxMilliseconds: 500 }
 		});
+		// the clamp is said at launch, naming the option and the limit used
+		expect(warnings).toContain('optimizers.0.options.gradTol = 1e-300 is below what double precision can reach; conjugate-gradient runs with 1e-15');
+		expect(warnings.join(' ')).toMatch(/optimizers\.1\.options\.stepTol = 1e-300 .* bfgs runs with 1e-16/);
 		const s = await waitFor(t.editor.client, id, undefined, 150_000);
 		expect(s.status, s.error ?? '').toBe('done');
 		expect(s.progress.done).toBe(s.progress.total);

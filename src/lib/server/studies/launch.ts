@@ -9,6 +9,7 @@ import type { Knex } from 'knex';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
+import { MIN_GRAD_TOL, MIN_TOL } from '../../numerics/optimize/run';
 import { makeStarts } from '../../numerics/optimize/starts';
 import { getWithData } from '../datasetStore';
 import { buildFits, type BuildResult, type BuildTask } from '../offload/fitWork';
@@ -124,6 +125,15 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 			);
 		}
 	}
+
+	// tolerances below what double precision can reach run at the limit (the optimizer clamps them): say so
+	input.optimizers.forEach((o, i) => {
+		const opts = (o.options ?? {}) as Record<string, unknown>;
+		for (const [k, floor] of [['gradTol', MIN_GRAD_TOL], ['stepTol', MIN_TOL], ['fTol', MIN_TOL], ['feasTol', MIN_TOL], ['residualTol', MIN_TOL]] as const) {
+			const v = opts[k];
+			if (typeof v === 'number' && v < floor) warnings.push(`optimizers.${i}.options.${k} = ${v} is below what double precision can reach; ${o.method} runs with ${floor}`);
+		}
+	});
 
 	input.optimizers.forEach((o, i) => {
 		const caps = OPTIMIZERS[o.method];
