@@ -139,15 +139,15 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 					run.notes.push(`simplex stagnated at ${fmt(best.x)} (${verdict.detail}); restarted with a fresh simplex`);
 					b = best.x.slice();
 					h = b.map((v) => Math.max(0.05 * Math.abs(v), 0.00025));
-					run.record(best);
 					run.beginIteration();
+					run.record(best);
 					continue;
 				}
 				return conclude(run, best, err.reason, { derivativeFree: true });
 			}
 			// fmin returned: it wanted to shrink. Count the shrink as an iteration and restart smaller.
-			run.record(best);
 			run.beginIteration();
+			run.record(best);
 			restarts++;
 			const xb = best.x;
 			const floor = 0.01 * stepTol * scaleOf(best.x);
