@@ -140,7 +140,7 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 		// stagnate on a ridge of a non-smooth function where only oblique directions
 		// descend (K. I. M. McKinnon, "Convergence of the Nelder–Mead simplex method
 		// to a nonstationary point", SIAM J. Optim. 9(1):148–158, 1998). Probe ±d at
-		// two scales for d in: the directions of Z, their diagonals (k ≤ 4), and 2k
+		// two scales for d in: the directions of Z, their diagonals (k ≤ 4), and 8k
 		// seeded pseudo-random combinations.
 		const dirs: number[][] = Z.map((z) => z.slice());
 		const combo = (w: number[]) => {
@@ -159,7 +159,7 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
 			return seed / 4294967296 - 0.5;
 		};
-		if (k >= 2) for (let r = 0; r < 2 * k; r++) {
+		if (k >= 2) for (let r = 0; r < 8 * k; r++) {
 			const v = combo(Array.from({ length: k }, rand));
 			if (v) dirs.push(v);
 		}
