@@ -3,7 +3,7 @@ export type Outcome = 'converged' | 'stalled' | 'iteration-limit' | 'left-domain
 export type Status = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
 
 export interface RunView {
-	id: number;
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;

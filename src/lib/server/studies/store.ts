@@ -129,7 +129,8 @@ export async function fits(db: Db, studyId: string, withSamples = false): Promis
 }
 
 export interface RunRow {
-	id: number;
+	/** the run's public id (random; the sequential key stays in the database) */
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;
@@ -154,7 +155,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -162,7 +163,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 	const [rows, startsRow] = await Promise.all([q, db('studies').where({ id: study.id }).first('starts')]);
 	const starts = unpackStarts(startsRow.starts, study.startCount, study.nInputs);
 	return rows.map((r) => ({
-		id: Number(r.id),
+		id: r.id as string,
 		fitId: r.fit_id,
 		method: r.method,
 		optimizer: study.spec.optimizers[r.optimizer]?.method ?? String(r.optimizer),
@@ -192,7 +193,7 @@ export interface RunColumns {
 	optimizers: string[];
 	/** start points, n numbers each, by start index */
 	starts: number[];
-	id: number[];
+	id: string[];
 	fit: number[];
 	optimizer: number[];
 	start: number[];
@@ -215,7 +216,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -241,7 +242,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		ms: []
 	};
 	for (const r of rows) {
-		out.id.push(Number(r.id));
+		out.id.push(r.id as string);
 		out.fit.push(r.position);
 		out.optimizer.push(r.optimizer);
 		out.start.push(r.start_index);
@@ -261,8 +262,8 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 
 /** A run's path with the study it belongs to (for the access check). */
 export async function runPath(db: Db, runId: string): Promise<{ studyId: string; path: StoredPath } | null> {
-	if (!/^\d{1,18}$/.test(runId)) return null;
-	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
+	if (!isUuid(runId)) return null;
+	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.public_id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
 	if (!row) return null;
 	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
 }
