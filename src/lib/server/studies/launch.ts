@@ -14,6 +14,7 @@ import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numeric
 import { GRID_MAX_INPUTS } from '../../numerics/fits/TensorGrid';
 import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
+import { MIN_GRAD_TOL, MIN_TOL } from '../../numerics/optimize/run';
 import { makeStarts } from '../../numerics/optimize/starts';
 import { getWithData } from '../datasetStore';
 import { buildFits, type BuildResult, type BuildTask } from '../offload/fitWork';
@@ -59,7 +60,7 @@ export interface LaunchArgs {
 	buildFits?: (task: BuildTask | SurfaceBuildTask) => Promise<BuildResult>;
 }
 
-export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[] }> {
+export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: string; status: 'queued'; runs: number; jobs: StudyJob[]; warnings: string[] }> {
 	const { input } = args;
 	const queue = args.queue ?? queueName();
 	const dataset = await getWithData(db, input.datasetId);
@@ -157,6 +158,27 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		return { fit: all[0], fitFile, constraintFiles };
 	});
 
+	// bounds beyond the data (allowed with an extrapolation rule other than refuse): say so at launch
+	const warnings: string[] = [];
+	{
+		const [lo, hi] = bounds[0];
+		if (lo < dataLo || hi > dataHi) {
+			const rules = [...new Set(built.map((b) => b.fit.extrapolation))].join(', ');
+			warnings.push(
+				`the bounds [${fmt(lo)}, ${fmt(hi)}] reach beyond the data [${fmt(dataLo)}, ${fmt(dataHi)}]: there the fits follow their extrapolation rule (${rules}), not the data, and runs that end there are flagged "outside the data"`
+			);
+		}
+	}
+
+	// tolerances below what double precision can reach run at the limit (the optimizer clamps them): say so
+	input.optimizers.forEach((o, i) => {
+		const opts = (o.options ?? {}) as Record<string, unknown>;
+		for (const [k, floor] of [['gradTol', MIN_GRAD_TOL], ['stepTol', MIN_TOL], ['fTol', MIN_TOL], ['feasTol', MIN_TOL], ['residualTol', MIN_TOL]] as const) {
+			const v = opts[k];
+			if (typeof v === 'number' && v < floor) warnings.push(`optimizers.${i}.options.${k} = ${v} is below what double precision can reach; ${o.method} runs with ${floor}`);
+		}
+	});
+
 	input.optimizers.forEach((o, i) => {
 		const caps = OPTIMIZERS[o.method];
 		if (!caps.kinds.includes(p.kind)) reject(`optimizers.${i}.method`, `${o.method} does not do ${p.kind} problems`);
@@ -194,6 +216,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		optimizers: input.optimizers.map((o) => ({ method: o.method, options: o.options ?? {} })),
 		starts: input.starts.points ? { points: input.starts.points } : input.starts.grid ? { grid: input.starts.grid } : { latinHypercube: input.starts.latinHypercube!, seed: input.starts.seed ?? 1 },
 		budgets,
+		...(warnings.length ? { warnings } : {}),
 		dataset: {
 			id: ds.id,
 			name: ds.name,
@@ -252,5 +275,5 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		if (args.enqueue !== false) for (let i = 0; i < jobs.length; i += 1000) await insertJobs(trx, jobs.slice(i, i + 1000));
 		return study.id as string;
 	});
-	return { id, status: 'queued', runs: runsTotal, jobs: queued };
+	return { id, status: 'queued', runs: runsTotal, jobs: queued, warnings };
 }

@@ -23,6 +23,7 @@ import type { SurfaceFit } from '../../numerics/fits/surfaceTypes';
 import { TensorGrid } from '../../numerics/fits/TensorGrid';
 import { surfaceProblem } from './surfaceProblem';
 import { optimize } from '../../numerics/optimize/optimize';
+import { brokenRun } from '../../numerics/optimize/run';
 import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../numerics/optimize/types';
 import { getWithData } from '../datasetStore';
 import { insertJobs } from './boss';
@@ -75,6 +76,7 @@ const CACHE_LIMIT = 64;
 /** store a batch after this many runs or this long */
 const BATCH_RUNS = 400;
 const BATCH_MS = 1000;
+const CANCEL_CHECK_MS = 100;
 
 export function unpackStarts(bytes: Buffer, count: number, n: number): number[][] {
 	const a = new Float64Array(count * n);
@@ -187,7 +189,7 @@ const ADVANCE_SQL = `UPDATE studies SET
 		status = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN 'done' ELSE 'running' END,
 		finished_at = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN now() ELSE finished_at END`;
 
-const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
+const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, outside_data, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
 
 /** JSON has no NaN or ±Infinity; PostgreSQL's float8 input reads them as text. */
 const jnum = (v: number): number | string => (Number.isFinite(v) ? v : String(v));
@@ -200,6 +202,7 @@ function runRecord(p: Prepared, fitId: string, optimizer: number, startIndex: nu
 		start_index: startIndex,
 		outcome: r.outcome,
 		at_kink: r.atKink,
+		outside_data: r.outsideData === true,
 		reason: studyReason(r, p.wording).slice(0, 500),
 		iterations: r.iterations,
 		evals_f: r.evaluations.f,
@@ -227,9 +230,9 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 			SELECT id FROM studies WHERE id = :study AND status IN ('queued', 'running') FOR UPDATE
 		), ins AS (
 			INSERT INTO study_runs (${RUN_COLUMNS})
-			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
+			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.outside_data, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
 				r.x, r.f, r.grad_norm, r.ms, r.path_length, decode(r.path, 'base64'), r.worker
-			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, reason text,
+			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, outside_data boolean, reason text,
 				iterations int, evals_f int, evals_grad int, evals_hess int, x float8[], f float8, grad_norm float8, ms real, path_length int, path text, worker text)
 			WHERE EXISTS (SELECT 1 FROM s)
 			ON CONFLICT (study_id, fit_id, optimizer, start_index) DO NOTHING
@@ -241,6 +244,20 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 		{ study: studyId, rows: JSON.stringify(rows) }
 	);
 	return out.length ? { status: out[0].status, inserted: out[0].inserted } : { status: null, inserted: 0 };
+}
+
+/**
+ * One run that can never fail its study: an error thrown by the fit or the
+ * optimizer is stored as a `diverged` run with the error as its reason (and
+ * logged), instead of failing the job and, after its retries, the study.
+ */
+function safeOptimize(problem: Problem, method: OptimizerName, options: OptimizeOptions, start: number[]): RunResult {
+	try {
+		return optimize(problem, method, options, start);
+	} catch (err) {
+		console.error(`study run (${method}) failed and is stored as diverged:`, err);
+		return brokenRun(problem, method, start, err);
+	}
 }
 
 async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs' }>, attempt: number): Promise<JobResult> {
@@ -284,10 +301,17 @@ async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs'
 		});
 	};
 
+	// a cancelled (or deleted) study stops this job between two starts, within about CANCEL_CHECK_MS
+	let lastCheck = t0;
 	for (let s = job.from; s < job.to; s++) {
+		if (Date.now() - lastCheck >= CANCEL_CHECK_MS) {
+			lastCheck = Date.now();
+			const now = await ctx.db('studies').where({ id: job.studyId }).first('status');
+			if (!isActive(now?.status)) return { status: now?.status ?? 'gone', stored, skipped: done.size };
+		}
 		for (const o of optimizers) {
 			if (done.has(`${o.index}/${s}`)) continue;
-			batch.push(runRecord(p, job.fitId, o.index, s, optimize(p.problem, o.method, o.options, p.starts[s]), worker));
+			batch.push(runRecord(p, job.fitId, o.index, s, safeOptimize(p.problem, o.method, o.options, p.starts[s]), worker));
 		}
 		const now = Date.now();
 		if (s < job.to - 1 && now - t0 > softMs) {

@@ -292,5 +292,19 @@ export const shareSchema = z.object({
 			.min(1, { error: 'expiresInDays must be at least 1' })
 			.max(365, { error: 'expiresInDays can be at most 365' })
 			.optional()
-	)
+	),
+	/** show member names (who launched, who picked) to link holders; hidden unless asked for */
+	showNames: z.preprocess(formBoolean, z.boolean({ error: 'showNames must be true or false' }).optional())
 });
+
+/** Turn member names on a live share link on or off. */
+export const shareNamesSchema = z.object({
+	showNames: z.preprocess(formBoolean, z.boolean({ error: 'showNames must be true or false' }))
+});
+
+/** A checkbox sends "on" (or "true"); an unticked one sends nothing. JSON sends a boolean. */
+function formBoolean(v: unknown): unknown {
+	if (v === 'on' || v === 'true') return true;
+	if (v === 'false' || v === '') return false;
+	return v;
+}

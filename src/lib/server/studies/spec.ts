@@ -17,6 +17,8 @@ export interface StudySpec {
 	optimizers: { method: OptimizerName; options: OptimizeOptions }[];
 	starts: { points: number[][] } | { grid: number } | { latinHypercube: number; seed: number };
 	budgets: { maxIterations: number; maxEvaluations: number; maxMilliseconds: number };
+	/** said at launch and shown on the study page (e.g. bounds reaching beyond the data); absent in older studies */
+	warnings?: string[];
 	dataset: {
 		id: string;
 		name: string;
