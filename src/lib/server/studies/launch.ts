@@ -139,7 +139,7 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 		reject(field, `${spec.method} on "${result.output}": ${result.problem.message}`);
 	}
 	const files = (result as Extract<BuildResult, { ok: true }>).fits;
-	const built: { fit: { continuity: string }; fitFile: string; constraintFiles: string[] }[] = input.fits.map((spec, i) => {
+	const built: { fit: { continuity: string; extrapolation: string }; fitFile: string; constraintFiles: string[] }[] = input.fits.map((spec, i) => {
 		const [fitFile, ...constraintFiles] = files[i];
 		const all = [fitFile, ...constraintFiles].map((j) => (surface ? surfaceFromJSON(j) : fitFromJSON(j)));
 		for (const f of all) {
@@ -160,15 +160,15 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 
 	// bounds beyond the data (allowed with an extrapolation rule other than refuse): say so at launch
 	const warnings: string[] = [];
-	{
-		const [lo, hi] = bounds[0];
+	bounds.forEach(([lo, hi], j) => {
+		const [dataLo, dataHi] = dataBox[j];
 		if (lo < dataLo || hi > dataHi) {
 			const rules = [...new Set(built.map((b) => b.fit.extrapolation))].join(', ');
 			warnings.push(
-				`the bounds [${fmt(lo)}, ${fmt(hi)}] reach beyond the data [${fmt(dataLo)}, ${fmt(dataHi)}]: there the fits follow their extrapolation rule (${rules}), not the data, and runs that end there are flagged "outside the data"`
+				`the bounds [${fmt(lo)}, ${fmt(hi)}]${surface ? ` on ${inputNames[j]}` : ''} reach beyond the data [${fmt(dataLo)}, ${fmt(dataHi)}]: there the fits follow their extrapolation rule (${rules}), not the data, and runs that end there are flagged "outside the data"`
 			);
 		}
-	}
+	});
 
 	// tolerances below what double precision can reach run at the limit (the optimizer clamps them): say so
 	input.optimizers.forEach((o, i) => {
