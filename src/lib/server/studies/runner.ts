@@ -17,6 +17,11 @@ import { monotoneStretches } from '../../numerics/audit/monotoneStretches';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../numerics/fits/types';
+import { auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
+import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
+import type { SurfaceFit } from '../../numerics/fits/surfaceTypes';
+import { TensorGrid } from '../../numerics/fits/TensorGrid';
+import { surfaceProblem } from './surfaceProblem';
 import { optimize } from '../../numerics/optimize/optimize';
 import { brokenRun } from '../../numerics/optimize/run';
 import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../numerics/optimize/types';
@@ -57,6 +62,8 @@ interface Prepared {
 	spec: StudySpec;
 	starts: number[][];
 	fit: CurveFit;
+	/** the surface fit, for studies of two or more inputs (fit is then unused) */
+	surface?: SurfaceFit;
 	problem: Problem;
 	/** how reasons are reworded in the study's own sense (reasonWording.ts) */
 	wording: ReasonContext;
@@ -102,6 +109,7 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 	]);
 	if (!study || !fitRow) return null;
 	const spec = study.spec as StudySpec;
+	if (spec.dataset?.shape && spec.dataset.shape !== 'curve') return prepareSurface(ctx, key, study, spec, fitRow);
 	const fit = fitFromJSON(fitRow.fit);
 	const constraintFits = (fitRow.constraint_fits as unknown[]).map((j) => fitFromJSON(j));
 	const kinks = kinksOf(fit);
@@ -124,6 +132,29 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 		fit,
 		problem: curveProblem(fit, constraintFits, problemSpec(spec), kinks),
 		wording
+	};
+	if (ctx.cache) {
+		if (ctx.cache.size >= CACHE_LIMIT) ctx.cache.delete(ctx.cache.keys().next().value!);
+		ctx.cache.set(key, prepared);
+	}
+	return prepared;
+}
+
+/** A study of two or more inputs: surface fits, the surface problem; kinks from the grid audit. */
+function prepareSurface(ctx: RunnerContext, key: string, study: Record<string, unknown>, spec: StudySpec, fitRow: Record<string, unknown>): Prepared {
+	const surface = surfaceFromJSON(fitRow.fit);
+	const constraintFits = (fitRow.constraint_fits as unknown[]).map((j) => surfaceFromJSON(j));
+	const n = study.n_inputs as number;
+	const prepared: Prepared = {
+		studyId: study.id as string,
+		queue: study.queue as string,
+		n,
+		spec,
+		starts: unpackStarts(study.starts as Buffer, study.start_count as number, n),
+		fit: null as unknown as CurveFit,
+		surface,
+		problem: surfaceProblem(surface, constraintFits, problemSpec(spec)),
+		wording: { kind: spec.problem.kind, bounds: spec.problem.bounds, measured: surface.continuity, kinked: surface.continuity === 'C0', method: surface.method }
 	};
 	if (ctx.cache) {
 		if (ctx.cache.size >= CACHE_LIMIT) ctx.cache.delete(ctx.cache.keys().next().value!);
@@ -337,6 +368,7 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 	if (!dataset) throw new Error(`dataset ${study.dataset_id} of study ${job.studyId} is gone`);
 	const xi = dataset.columns.findIndex((c) => c.role === 'input');
 	const yi = dataset.columns.findIndex((c) => c.name === study.output);
+	if (p.surface) return storeAudit(ctx, job, p, status!, surfaceAuditSummary(p.surface), { kind: 'none', x: null, f: null, samples: 0, fRange: 0, note: 'the dense reference search covers one-input problems' }, null);
 	const fit = p.fit;
 	const fitPosition = fitRow.position as number;
 
@@ -386,7 +418,34 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 	const reference = safe(() => referenceOptimum(p.problem, p.spec.problem.bounds, Math.min(20_001, Math.max(4001, 20 * dataset.rowCount + 1))));
 	const samples = curveSamples(fit, p.spec.problem.bounds[0]);
 
-	let state: string = status!;
+	return storeAudit(ctx, job, p, status!, { smoothness, fidelity }, reference, samples);
+}
+
+/** A surface fit's audit summary: the measured class per input and the kinked grid lines (grid fits); RBF leave-one-out. */
+function surfaceAuditSummary(fit: SurfaceFit): { smoothness: unknown; fidelity: unknown } {
+	const smoothness =
+		fit instanceof TensorGrid
+			? safe(() => {
+					const a = auditSurfaceSmoothness(fit, 5);
+					return { declared: fit.continuity, measured: a.overall, perInput: a.perInput, kinkLines: a.kinkLines, worstLines: a.worstLines };
+				})
+			: { declared: fit.continuity, measured: fit.continuity, perInput: fit.axisContinuity, kinkLines: [], worstLines: [] };
+	const loo = fit.stats.looResiduals;
+	const fidelity = loo ? { looRmse: fit.stats.looRms ?? null, looMax: Math.max(...Array.from(loo, Math.abs)), looMethod: 'rippa', condition: fit.stats.condition ?? null, notes: fit.notes } : { looRmse: null, looMax: null, notes: fit.notes };
+	return { smoothness, fidelity };
+}
+
+async function storeAudit(
+	ctx: RunnerContext,
+	job: Extract<StudyJob, { kind: 'audit' }>,
+	p: Prepared,
+	status: string,
+	audit: { smoothness: unknown; fidelity: unknown },
+	reference: unknown,
+	samples: unknown
+): Promise<JobResult> {
+	const { smoothness, fidelity } = audit;
+	let state: string = status;
 	let stored = 0;
 	await ctx.db.transaction(async (trx) => {
 		const locked = await trx('studies').where({ id: job.studyId }).whereIn('status', ['queued', 'running']).forUpdate().first('id');
