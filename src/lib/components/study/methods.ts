@@ -24,13 +24,9 @@ export const OPTIMIZER_NOTES: Record<string, string> = {
 	newton: 'Newton steps from f′ and f″ (shows why C2 matters)'
 };
 
-export const OUTCOME_NOTES: Record<string, string> = {
-	converged: 'met the first-order test',
-	stalled: 'stopped making progress before the tolerance',
-	'iteration-limit': 'ran out of iterations, evaluations or time',
-	'left-domain': 'asked for a point outside the data under the refuse rule',
-	diverged: 'reached a value that is not a finite number'
-};
+import { OUTCOME_MEANINGS } from '$lib/domain/outcomes';
+/** each outcome's meaning, looked up by the stored outcome text */
+export const OUTCOME_NOTES: Readonly<Record<string, string>> = OUTCOME_MEANINGS;
 
 /** A number for a table cell: a few significant digits, no trailing zeros. */
 export function num(v: number | null | undefined, digits = 4): string {

@@ -11,10 +11,10 @@ import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
 
 type Db = Knex | Knex.Transaction;
-export type StudyStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+import { ACTIVE_STATUSES, type StudyStatus } from '../../domain/lifecycle';
+export { isActive, type StudyStatus } from '../../domain/lifecycle';
 export { isUuid } from '../../text';
 import { isUuid } from '../../text';
-export const isActive = (s: StudyStatus) => s === 'queued' || s === 'running';
 
 export interface Study {
 	id: string;
@@ -269,7 +269,7 @@ export async function runPath(db: Db, runId: string): Promise<{ studyId: string;
 
 /** Cancel a queued or running study. Runs already stored stay. */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
-	const n = await db('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
+	const n = await db('studies').where({ id }).whereIn('status', ACTIVE_STATUSES).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
 	return n > 0;
 }
 
