@@ -75,11 +75,13 @@ export const handle: Handle = async ({ event, resolve }) => {
 	}
 
 	const response = await resolve(event);
-	response.headers.set('x-content-type-options', 'nosniff');
-	response.headers.set('referrer-policy', 'same-origin');
-	response.headers.set('x-frame-options', 'DENY');
-	response.headers.set('permissions-policy', 'camera=(), microphone=(), geolocation=()');
-	if (isApi) response.headers.set('cache-control', 'no-store');
+	// The headers every response carries (nosniff, frame and referrer policy, HSTS over
+	// https, a default content policy) are set by scripts/serve.mjs, static files included;
+	// pages get SvelteKit's content policy (svelte.config.js). Here: nothing a signed-in
+	// caller sees, and no API answer, is kept by a shared cache or the browser's history.
+	if ((isApi || event.locals.user) && !response.headers.get('cache-control')?.includes('no-store')) {
+		response.headers.set('cache-control', 'private, no-store');
+	}
 	return response;
 };
 

@@ -10,22 +10,22 @@ const email = z
 	.toLowerCase()
 	.max(254, { error: 'e-mail is longer than 254 characters' })
 	.pipe(z.email({ error: 'that is not a valid e-mail address' }));
-const password = z
+export const newPassword = z
 	.string({ error: 'password is required' })
 	.min(10, { error: 'password must be at least 10 characters' })
 	.max(256, { error: 'password must be at most 256 characters' });
 
 export const signUpSchema = z.object({
 	email,
-	password,
+	password: newPassword,
 	name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' })
 });
 export const signInSchema = z.object({
 	email,
-	password: z.string({ error: 'password is required' }).min(1, { error: 'password is required' }).max(256)
+	password: z.string({ error: 'password is required' }).min(1, { error: 'password is required' }).max(256, { error: 'password must be at most 256 characters' })
 });
 export const resetRequestSchema = z.object({ email });
-export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), password });
+export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), password: newPassword });
 export const workspaceCreateSchema = z.object({
 	name: z.string().trim().min(2, { error: 'workspace name must be at least 2 characters' }).max(80, { error: 'workspace name must be at most 80 characters' })
 });
@@ -35,6 +35,14 @@ export const memberRoleSchema = z.object({ userId: z.string().min(1).max(100), r
 export const memberRemoveSchema = z.object({ userId: z.string().min(1).max(100) });
 export const tokenCreateSchema = z.object({
 	name: z.string().trim().min(1, { error: 'token name is required' }).max(80, { error: 'token name must be at most 80 characters' })
+});
+export const passwordChangeSchema = z.object({
+	current: z.string({ error: 'current password is required' }).min(1, { error: 'current password is required' }).max(256, { error: 'password must be at most 256 characters' }),
+	password: newPassword
+});
+export const emailChangeSchema = z.object({
+	current: z.string({ error: 'current password is required' }).min(1, { error: 'current password is required' }).max(256, { error: 'password must be at most 256 characters' }),
+	email
 });
 export const profileSchema = z.object({
 	name: z.string().trim().min(1, { error: 'name is required' }).max(120, { error: 'name must be at most 120 characters' })

@@ -21,8 +21,14 @@ export class Client {
 	cookies = new Map<string, string>();
 	bearer: string | null = null;
 
+	/** `base`: another server than the suite's; `headers`: sent with every request (e.g. x-forwarded-for) */
+	constructor(
+		readonly base = BASE,
+		readonly headers: Record<string, string> = {}
+	) {}
+
 	async request(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Response> {
-		const h: Record<string, string> = { ...headers };
+		const h: Record<string, string> = { ...this.headers, ...headers };
 		if (this.cookies.size) h.cookie = [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
 		if (this.bearer) h.authorization = `Bearer ${this.bearer}`;
 		let payload: BodyInit | undefined;
@@ -31,7 +37,7 @@ export class Client {
 			payload = JSON.stringify(body);
 			h['content-type'] ??= 'application/json';
 		}
-		const res = await fetch(BASE + path, { method, headers: h, body: payload, redirect: 'manual' });
+		const res = await fetch(this.base + path, { method, headers: h, body: payload, redirect: 'manual' });
 		for (const c of res.headers.getSetCookie()) {
 			const [pair] = c.split(';');
 			const i = pair.indexOf('=');
@@ -52,7 +58,7 @@ export class Client {
 		return this.request('POST', path, new URLSearchParams(fields).toString(), {
 			'content-type': 'application/x-www-form-urlencoded',
 			accept: 'text/html',
-			origin: new URL(BASE).origin
+			origin: new URL(this.base).origin
 		});
 	}
 }
@@ -120,7 +126,7 @@ export async function secondServer(env: Record<string, string | undefined>): Pro
 	const base = `http://127.0.0.1:${port}`;
 	const childEnv: Record<string, string | undefined> = { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: base, SMTP_CATCHER_PORT: String(await freePort()), ...env };
 	for (const k of Object.keys(childEnv)) if (childEnv[k] === undefined) delete childEnv[k];
-	const child = spawn('node', ['build'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
+	const child = spawn('node', ['scripts/serve.mjs'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
 	const stop = () => void child.kill('SIGKILL');
 	for (let i = 0; i < 150 && !(await fetch(`${base}/api/health`).catch(() => null)); i++) await new Promise((r) => setTimeout(r, 100));
 	return { base, stop };

@@ -5,7 +5,8 @@ import type { signInSchema, signUpSchema } from '$lib/schemas';
 import { fail4xx } from './api';
 import { auth, hashPassword, verifyPassword } from './auth';
 import { db } from './db';
-import { actionMail } from './mail';
+import * as apiTokens from './apiTokens';
+import { actionMail, send } from './mail';
 import * as passwordResets from './passwordResets';
 import * as rateLimit from './rateLimit';
 import * as users from './users';
@@ -38,23 +39,48 @@ export async function endSession(cookies: Cookies, sessionId: string | undefined
 	cookies.set(c.name, c.value, { path: '/', ...c.attributes });
 }
 
-export async function signIn(input: z.output<typeof signInSchema>, address: string) {
+const deviceCookieOptions = () => ({
+	path: '/',
+	httpOnly: true,
+	sameSite: 'lax' as const,
+	secure: (process.env.ORIGIN ?? '').startsWith('https://'),
+	maxAge: 60 * 60 * 24 * 365
+});
+
+/**
+ * Check e-mail and password under the sign-in limits (rateLimit.ts). On success the
+ * browser keeps (or gets) a device cookie, so later wrong guesses from elsewhere never
+ * lock it out.
+ */
+export async function signIn(input: z.output<typeof signInSchema>, address: string, cookies: Cookies) {
 	const handle = db();
-	if (await rateLimit.signInBlocked(handle, input.email, address)) {
-		fail4xx(429, `too many failed sign-ins; wait ${rateLimit.WINDOW} minutes or reset your password`);
-	}
 	const user = await users.findByEmail(handle, input.email);
+	const device = await rateLimit.deviceOwner(handle, cookies.get(rateLimit.DEVICE_COOKIE));
+	const gate = await rateLimit.gateSignIn(handle, input.email, address, device, user?.id ?? null);
+	if (!gate.allowed) fail4xx(429, gate.message, 'too-many-sign-ins');
 	const ok = await verifyPassword(user?.password_hash ?? (await dummy()), input.password);
 	if (!user || !ok) {
-		await rateLimit.recordFailure(handle, input.email, address);
+		await gate.failed();
 		fail4xx(401, 'wrong e-mail or password', 'bad-credentials');
 	}
-	await rateLimit.clearAccount(handle, input.email);
+	const deviceToken = await gate.succeeded(user.id);
+	if (deviceToken) cookies.set(rateLimit.DEVICE_COOKIE, deviceToken, deviceCookieOptions());
 	return user;
 }
 
-/** Always looks the same to the caller, whether or not the account exists. */
-export async function requestPasswordReset(email: string, origin: string) {
+/**
+ * Always looks the same to the caller, whether or not the account exists: the answer
+ * goes out before the account is even looked up (so its timing tells nothing), and
+ * the mail is prepared and sent afterwards.
+ */
+export async function requestPasswordReset(email: string, origin: string, address: string) {
+	const gate = await rateLimit.gateResetRequest(db(), email, address);
+	if (gate.addressOver) fail4xx(429, `too many password-reset requests from this network address; try again in ${rateLimit.RESET_WINDOW} minutes`, 'too-many-resets');
+	if (gate.accountOver) return;
+	void sendResetMail(email, origin).catch((e) => console.error('password-reset mail failed', e));
+}
+
+async function sendResetMail(email: string, origin: string) {
 	const user = await users.findByEmail(db(), email);
 	if (!user) return;
 	const token = await passwordResets.create(db(), user.id);
@@ -68,11 +94,60 @@ export async function requestPasswordReset(email: string, origin: string) {
 	});
 }
 
-export async function resetPassword(token: string, password: string) {
+/**
+ * Set a new password through an e-mailed link. Every session of the account ends, every
+ * other outstanding reset link stops working, the sign-in limits of the account are
+ * lifted, and (when asked) every API token is revoked.
+ */
+export async function resetPassword(token: string, password: string, opts: { revokeTokens: boolean }) {
 	const state = await passwordResets.consume(db(), token);
 	if (!state.ok) fail4xx(400, passwordResets.MESSAGES[state.reason], `reset-${state.reason}`);
-	await users.setPassword(db(), state.userId, password);
-	// every existing session of that account ends
-	await auth().invalidateUserSessions(state.userId);
-	return state.userId;
+	const user = await users.findById(db(), state.userId);
+	if (!user) fail4xx(400, passwordResets.MESSAGES.unknown, 'reset-unknown');
+	await users.setPassword(db(), user.id, password);
+	await passwordResets.revokeAllFor(db(), user.id);
+	await auth().invalidateUserSessions(user.id);
+	await rateLimit.clearAccount(db(), user.email, user.id);
+	if (opts.revokeTokens) await apiTokens.revokeAll(db(), user.id);
+	return user.id;
+}
+
+/** Settings: a new password needs the current one; every other session of the account ends. */
+export async function changePassword(userId: string, current: string, next: string, address: string, cookies: Cookies, sessionId: string | null) {
+	const user = await currentPasswordOrFail(userId, current, address);
+	await users.setPassword(db(), user.id, next);
+	await passwordResets.revokeAllFor(db(), user.id);
+	await auth().invalidateUserSessions(user.id);
+	// this browser stays signed in, on a fresh session id
+	await startSession(cookies, user.id, sessionId);
+}
+
+/** Settings: a new e-mail needs the current password; the old address is told. */
+export async function changeEmail(userId: string, current: string, email: string, address: string) {
+	const user = await currentPasswordOrFail(userId, current, address);
+	const next = email.toLowerCase();
+	if (next === user.email) return user.email;
+	const changed = await users.setEmail(db(), user.id, next);
+	if (!changed) fail4xx(409, 'an account with this e-mail already exists', 'email-taken', [{ field: 'email', problem: 'already registered' }]);
+	await passwordResets.revokeAllFor(db(), user.id);
+	await send({
+		to: user.email,
+		subject: 'Your Kinkless e-mail address was changed',
+		text: `The e-mail address of your Kinkless account was changed from ${user.email} to ${next}. If you did not make this change, tell your workspace admin at once: whoever did can now receive this account's reset links.`
+	}).catch((e) => console.error('address-change notice failed', e));
+	return next;
+}
+
+// Under the same limits as sign-in, so a borrowed session cannot guess the password.
+async function currentPasswordOrFail(userId: string, current: string, address: string) {
+	const user = await users.findById(db(), userId);
+	if (!user) fail4xx(401, 'sign in first', 'unauthenticated');
+	const gate = await rateLimit.gateSignIn(db(), user.email, address, null, user.id);
+	if (!gate.allowed) fail4xx(429, gate.message, 'too-many-sign-ins');
+	if (!(await verifyPassword(user.password_hash, current))) {
+		await gate.failed();
+		fail4xx(400, 'the current password is wrong', 'bad-credentials', [{ field: 'current', problem: 'does not match' }]);
+	}
+	await gate.succeeded(user.id, false);
+	return user;
 }

@@ -35,3 +35,6 @@ export async function authenticate(db: Db, token: string): Promise<{ id: string;
 	await db('api_tokens').where({ id: row.token_id }).update({ last_used_at: db.fn.now() });
 	return { id: row.id, email: row.email, name: row.name };
 }
+
+/** Revoke every live token of the user (offered with a password reset); how many. */
+export const revokeAll = (db: Db, userId: string) => db('api_tokens').where({ user_id: userId }).whereNull('revoked_at').update({ revoked_at: db.fn.now() });

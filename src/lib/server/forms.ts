@@ -11,7 +11,7 @@ import { findControlCharacter } from '$lib/text';
  */
 export async function formAction<S extends z.ZodType, T>(request: Request, schema: S, fn: (input: z.output<S>) => Promise<T>) {
 	const raw = formObject(await request.formData());
-	const values = Object.fromEntries(Object.entries(raw).filter(([k]) => !/password|token/i.test(k)));
+	const values = Object.fromEntries(Object.entries(raw).filter(([k]) => !/password|token|current/i.test(k)));
 	const control = findControlCharacter(raw);
 	if (control) {
 		const problem = `contains a control character (${control.found}); remove it`;
@@ -31,4 +31,13 @@ export async function formAction<S extends z.ZodType, T>(request: Request, schem
 		}
 		throw e;
 	}
+}
+
+/** Mark a failed form action's data with the form it came from (a page with several forms). */
+export function fromForm<T>(result: T, form: string): T {
+	if (result && typeof result === 'object' && 'status' in result && 'data' in result) {
+		const failure = result as { data: Record<string, unknown> };
+		failure.data.form = form;
+	}
+	return result;
 }

@@ -43,3 +43,6 @@ export const MESSAGES: Record<'unknown' | 'used' | 'expired', string> = {
 	used: 'this reset link was already used; ask for a new one',
 	expired: 'this reset link has expired (links last one hour); ask for a new one'
 };
+
+/** Every outstanding link of the account stops working (after a reset or a password change). */
+export const revokeAllFor = (db: Db, userId: string) => db('password_resets').where({ user_id: userId }).whereNull('used_at').update({ used_at: db.fn.now() });

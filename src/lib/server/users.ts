@@ -24,3 +24,12 @@ export async function setPassword(db: Db, id: string, password: string): Promise
 }
 
 export const setName = (db: Db, id: string, name: string) => db('users').where({ id }).update({ name });
+
+/** Change the e-mail; false when another account has it (the unique index decides). */
+export async function setEmail(db: Db, id: string, email: string): Promise<boolean> {
+	const n = await db('users').where({ id }).update({ email: email.toLowerCase() }).catch((e: { code?: string }) => {
+		if (e.code === '23505') return 0;
+		throw e;
+	});
+	return Number(n) > 0;
+}

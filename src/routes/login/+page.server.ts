@@ -14,7 +14,7 @@ export const load = (({ locals, url }) => {
 export const actions = {
 	default: async (event) => {
 		const result = await formAction(event.request, signInSchema, async (input) => {
-			const user = await signIn(input, event.getClientAddress());
+			const user = await signIn(input, event.getClientAddress(), event.cookies);
 			await startSession(event.cookies, user.id, event.locals.session?.id);
 			return { ok: true as const };
 		});

@@ -1,8 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { profileSchema, tokenCreateSchema } from '$lib/schemas';
+import { emailChangeSchema, passwordChangeSchema, profileSchema, tokenCreateSchema } from '$lib/schemas';
+import { changeEmail, changePassword } from '$lib/server/accounts';
 import * as apiTokens from '$lib/server/apiTokens';
 import { db } from '$lib/server/db';
-import { formAction } from '$lib/server/forms';
+import { formAction, fromForm } from '$lib/server/forms';
 import * as users from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -20,6 +21,29 @@ export const actions = {
 			await users.setName(db(), user.id, name);
 			return { saved: true as const };
 		});
+	},
+	password: async ({ request, locals, cookies, getClientAddress }) => {
+		if (!locals.user) redirect(303, '/login');
+		const user = locals.user;
+		const sessionId = locals.session?.id ?? null;
+		return fromForm(
+			await formAction(request, passwordChangeSchema, async ({ current, password }) => {
+				await changePassword(user.id, current, password, getClientAddress(), cookies, sessionId);
+				return { passwordChanged: true as const };
+			}),
+			'password'
+		);
+	},
+	email: async ({ request, locals, getClientAddress }) => {
+		if (!locals.user) redirect(303, '/login');
+		const user = locals.user;
+		return fromForm(
+			await formAction(request, emailChangeSchema, async ({ current, email }) => {
+				const now = await changeEmail(user.id, current, email, getClientAddress());
+				return { emailChanged: now };
+			}),
+			'email'
+		);
 	},
 	createToken: async ({ request, locals }) => {
 		if (!locals.user) redirect(303, '/login');

@@ -7,7 +7,7 @@ export interface RunColumns {
 	fitIds: string[];
 	optimizers: string[];
 	starts: number[];
-	id: number[];
+	id: string[];
 	fit: number[];
 	optimizer: number[];
 	start: number[];

@@ -3,7 +3,7 @@ export type { Outcome } from '$lib/domain/outcomes';
 export type { StudyStatus as Status } from '$lib/domain/lifecycle';
 
 export interface RunView {
-	id: number;
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;

@@ -69,6 +69,7 @@ const CACHE_LIMIT = 64;
 /** store a batch after this many runs or this long */
 const BATCH_RUNS = 400;
 const BATCH_MS = 1000;
+const CANCEL_CHECK_MS = 100;
 
 export function unpackStarts(bytes: Buffer, count: number, n: number): number[][] {
 	const a = new Float64Array(count * n);
@@ -253,7 +254,14 @@ async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs'
 		});
 	};
 
+	// a cancelled (or deleted) study stops this job between two starts, within about CANCEL_CHECK_MS
+	let lastCheck = t0;
 	for (let s = job.from; s < job.to; s++) {
+		if (Date.now() - lastCheck >= CANCEL_CHECK_MS) {
+			lastCheck = Date.now();
+			const now = await ctx.db('studies').where({ id: job.studyId }).first('status');
+			if (!isActive(now?.status)) return { status: now?.status ?? 'gone', stored, skipped: done.size };
+		}
 		for (const o of optimizers) {
 			if (done.has(`${o.index}/${s}`)) continue;
 			batch.push(runRecord(p, job.fitId, o.index, s, optimize(p.problem, o.method, o.options, p.starts[s]), worker));

@@ -6,6 +6,7 @@
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';
+import { queueName } from './boss';
 import { unpackPath, type StoredPath } from './pathPack';
 import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
@@ -129,7 +130,8 @@ export async function fits(db: Db, studyId: string, withSamples = false): Promis
 }
 
 export interface RunRow {
-	id: number;
+	/** the run's public id (random; the sequential key stays in the database) */
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;
@@ -154,7 +156,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -162,7 +164,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 	const [rows, startsRow] = await Promise.all([q, db('studies').where({ id: study.id }).first('starts')]);
 	const starts = unpackStarts(startsRow.starts, study.startCount, study.nInputs);
 	return rows.map((r) => ({
-		id: Number(r.id),
+		id: r.id as string,
 		fitId: r.fit_id,
 		method: r.method,
 		optimizer: study.spec.optimizers[r.optimizer]?.method ?? String(r.optimizer),
@@ -192,7 +194,7 @@ export interface RunColumns {
 	optimizers: string[];
 	/** start points, n numbers each, by start index */
 	starts: number[];
-	id: number[];
+	id: string[];
 	fit: number[];
 	optimizer: number[];
 	start: number[];
@@ -215,7 +217,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -241,7 +243,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		ms: []
 	};
 	for (const r of rows) {
-		out.id.push(Number(r.id));
+		out.id.push(r.id as string);
 		out.fit.push(r.position);
 		out.optimizer.push(r.optimizer);
 		out.start.push(r.start_index);
@@ -261,16 +263,26 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 
 /** A run's path with the study it belongs to (for the access check). */
 export async function runPath(db: Db, runId: string): Promise<{ studyId: string; path: StoredPath } | null> {
-	if (!/^\d{1,18}$/.test(runId)) return null;
-	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
+	if (!isUuid(runId)) return null;
+	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.public_id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
 	if (!row) return null;
 	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
 }
 
-/** Cancel a queued or running study. Runs already stored stay. */
+/**
+ * Cancel a queued or running study. Runs already stored stay. Its jobs still waiting in
+ * the queue are cancelled in the same transaction, so they never hold a worker thread
+ * (before, every one of a large study's jobs was still fetched and skipped, one by one,
+ * ahead of other studies' work); a job in flight notices between two starts (runner.ts).
+ */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
-	const n = await db('studies').where({ id }).whereIn('status', ACTIVE_STATUSES).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		const n = await trx('studies').where({ id }).whereIn('status', ACTIVE_STATUSES).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
+		if (n > 0 && (await trx.raw(`SELECT to_regclass('pgboss.job') AS t`)).rows[0].t) {
+			await trx.raw(`UPDATE pgboss.job SET state = 'cancelled', completed_on = now() WHERE name = ? AND state < 'active' AND data->>'studyId' = ?`, [queueName(), id]);
+		}
+		return n > 0;
+	});
 }
 
 export async function pick(db: Db, studyId: string, fitId: string, rationale: string, userId: string): Promise<boolean> {

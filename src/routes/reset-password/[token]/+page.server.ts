@@ -1,5 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
+import { newPassword } from '$lib/schemas';
 
 import { resetPassword } from '$lib/server/accounts';
 import { db } from '$lib/server/db';
@@ -7,7 +8,11 @@ import { formAction } from '$lib/server/forms';
 import * as passwordResets from '$lib/server/passwordResets';
 import type { Actions, PageServerLoad } from './$types';
 
-const schema = z.object({ password: z.string().min(10, { error: 'password must be at least 10 characters' }).max(256) });
+const schema = z.object({
+	password: newPassword,
+	// a checkbox: present when ticked
+	revokeTokens: z.string().optional().transform((v) => v !== undefined && v !== '')
+});
 
 export const load = (async ({ params }) => {
 	const state = await passwordResets.check(db(), params.token);
@@ -16,8 +21,8 @@ export const load = (async ({ params }) => {
 
 export const actions = {
 	default: async ({ request, params }) => {
-		const result = await formAction(request, schema, async ({ password }) => {
-			await resetPassword(params.token, password);
+		const result = await formAction(request, schema, async ({ password, revokeTokens }) => {
+			await resetPassword(params.token, password, { revokeTokens });
 			return { done: true as const };
 		});
 		if ('done' in result) redirect(303, '/login?reset=1');

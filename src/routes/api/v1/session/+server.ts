@@ -6,7 +6,7 @@ import { endSession, signIn, startSession } from '$lib/server/accounts';
 
 export const POST = api<RequestHandler>(async (event) => {
 	const input = await readJson(event, signInSchema);
-	const user = await signIn(input, event.getClientAddress());
+	const user = await signIn(input, event.getClientAddress(), event.cookies);
 	await startSession(event.cookies, user.id, event.locals.session?.id);
 	return json({ id: user.id, email: user.email, name: user.name });
 });
