@@ -16,7 +16,8 @@
 
 export type OptimizerName = 'sqp' | 'bfgs' | 'conjugate-gradient' | 'steepest-descent' | 'nelder-mead' | 'newton';
 
-export type Outcome = 'converged' | 'stalled' | 'iteration-limit' | 'left-domain' | 'diverged';
+import type { Outcome } from '../../domain/outcomes';
+export type { Outcome };
 
 export type ProblemKind = 'minimize' | 'maximize' | 'solve';
 

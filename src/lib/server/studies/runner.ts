@@ -28,6 +28,7 @@ import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../n
 import { getWithData } from '../datasetStore';
 import { insertJobs } from './boss';
 import { mailJob, runsJob, softSeconds, type StudyJob } from './jobs';
+import { ACTIVE_STATUSES, isActive } from '../../domain/lifecycle';
 import { packPath } from './pathPack';
 import { curveProblem, kinksOf, type ProblemSpec } from './problem';
 import { studyReason, type ReasonContext } from './reasonWording';
@@ -171,7 +172,6 @@ async function markRunning(db: Db, studyId: string): Promise<string | null> {
 	return 'running';
 }
 
-const isActive = (status: string | null | undefined) => status === 'queued' || status === 'running';
 
 /**
  * The transition to done, queued with its e-mail in the same transaction. Used
@@ -448,7 +448,7 @@ async function storeAudit(
 	let state: string = status;
 	let stored = 0;
 	await ctx.db.transaction(async (trx) => {
-		const locked = await trx('studies').where({ id: job.studyId }).whereIn('status', ['queued', 'running']).forUpdate().first('id');
+		const locked = await trx('studies').where({ id: job.studyId }).whereIn('status', ACTIVE_STATUSES).forUpdate().first('id');
 		if (!locked) {
 			state = 'stopped';
 			return;

@@ -15,7 +15,8 @@ export const RANK_RULE = VERDICT_RULE;
 /** a best end point within this share of the fit's range of f from the reference counts as reaching it */
 export const REFERENCE_TOLERANCE = 1e-6;
 
-export const OUTCOMES = ['converged', 'stalled', 'iteration-limit', 'left-domain', 'diverged'] as const;
+import { OUTCOMES } from '../../domain/outcomes';
+export { OUTCOMES };
 
 export interface ScorecardRow {
 	rank: number;

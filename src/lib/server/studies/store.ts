@@ -12,10 +12,10 @@ import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
 
 type Db = Knex | Knex.Transaction;
-export type StudyStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+import { ACTIVE_STATUSES, type StudyStatus } from '../../domain/lifecycle';
+export { isActive, type StudyStatus } from '../../domain/lifecycle';
 export { isUuid } from '../../text';
 import { isUuid } from '../../text';
-export const isActive = (s: StudyStatus) => s === 'queued' || s === 'running';
 
 export interface Study {
 	id: string;
@@ -283,7 +283,7 @@ export async function runPath(db: Db, runId: string): Promise<{ studyId: string;
  */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
 	return db.transaction(async (trx) => {
-		const n = await trx('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
+		const n = await trx('studies').where({ id }).whereIn('status', ACTIVE_STATUSES).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
 		if (n > 0 && (await trx.raw(`SELECT to_regclass('pgboss.job') AS t`)).rows[0].t) {
 			await trx.raw(`UPDATE pgboss.job SET state = 'cancelled', completed_on = now() WHERE name = ? AND state < 'active' AND data->>'studyId' = ?`, [queueName(), id]);
 		}
