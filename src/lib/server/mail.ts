@@ -33,7 +33,8 @@ const catcherPort = () => Number(process.env.SMTP_CATCHER_PORT ?? 2525);
 
 function transport(): Transporter {
 	transporter ??= process.env.SMTP_URL
-		? nodemailer.createTransport(process.env.SMTP_URL)
+		? // timeouts well inside a mail job's expiry: a hanging server fails the attempt, which is retried
+			nodemailer.createTransport({ url: process.env.SMTP_URL, connectionTimeout: 15_000, greetingTimeout: 15_000, socketTimeout: 30_000 })
 		: nodemailer.createTransport({ host: '127.0.0.1', port: catcherPort(), secure: false, ignoreTLS: true });
 	return transporter;
 }

@@ -62,6 +62,7 @@ export async function startBoss(connectionString: string, queue = queueName(), o
 
 export async function ensureQueues(boss: PgBoss, queue: string): Promise<void> {
 	await boss.createQueue(failedQueue(queue), { name: failedQueue(queue), retryLimit: 5, retryDelay: 5 });
-	await boss.createQueue(mailQueue(queue), { name: mailQueue(queue), retryLimit: 5, retryDelay: 10, retryBackoff: true });
+	// retries as mailJob sets them (jobs.ts); these are the queue's defaults
+	await boss.createQueue(mailQueue(queue), { name: mailQueue(queue), retryLimit: 12, retryDelay: 10, retryBackoff: true });
 	await boss.createQueue(queue, { name: queue, retryLimit: RETRY_LIMIT, retryDelay: RETRY_DELAY_SECONDS, deadLetter: failedQueue(queue) });
 }

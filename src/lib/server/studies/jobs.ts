@@ -33,6 +33,14 @@ export function auditJob(queue: string, data: Extract<StudyJob, { kind: 'audit' 
 	return { name: queue, data, priority: 10, expireInSeconds: AUDIT_EXPIRE_SECONDS, retryLimit: RETRY_LIMIT, retryDelay: RETRY_DELAY_SECONDS, deadLetter: failedQueue(queue) };
 }
 
+/**
+ * "Study finished" mail is retried with doubling delays (10 s, 20 s, … about 11 hours
+ * in all), so an SMTP outage delays it rather than losing it. The SMTP timeouts
+ * (mail.ts) are well inside the job's expiry, so a hanging server counts as a failure.
+ */
+export const MAIL_RETRY_LIMIT = 12;
+export const mailRetrySeconds = () => Number(process.env.KINKLESS_MAIL_RETRY_SECONDS ?? 10);
+
 export function mailJob(queue: string, data: MailJob): PgBoss.JobInsert {
-	return { name: mailQueue(queue), data, retryLimit: 5, retryDelay: 10, retryBackoff: true, expireInSeconds: 60 };
+	return { name: mailQueue(queue), data, retryLimit: MAIL_RETRY_LIMIT, retryDelay: mailRetrySeconds(), retryBackoff: true, expireInSeconds: 120 };
 }
