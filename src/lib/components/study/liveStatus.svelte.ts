@@ -3,6 +3,7 @@
 // ends, the page's data are loaded again. The badge and the progress panel
 // both read this object.
 import { invalidateAll } from '$app/navigation';
+import { isActive } from '$lib/domain/lifecycle';
 import type { Status } from './types';
 
 export type Live = { status: Status; done: number; total: number; audits: { done: number; total: number }; error?: string | null };
@@ -14,7 +15,7 @@ export function liveStatus(initial: () => Live, urls: () => { eventsUrl: string 
 		Object.assign(live, initial());
 	});
 	$effect(() => {
-		const ended = (s: Status) => s !== 'queued' && s !== 'running';
+		const ended = (s: Status) => !isActive(s);
 		const { eventsUrl, pollUrl } = urls();
 		if (ended(initial().status)) return;
 		if (eventsUrl) {

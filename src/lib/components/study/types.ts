@@ -1,6 +1,6 @@
 // The shapes the study components receive (what the server's studyPage returns).
-export type Outcome = 'converged' | 'stalled' | 'iteration-limit' | 'left-domain' | 'diverged';
-export type Status = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+export type { Outcome } from '$lib/domain/outcomes';
+export type { StudyStatus as Status } from '$lib/domain/lifecycle';
 
 export interface RunView {
 	id: string;
@@ -12,6 +12,8 @@ export interface RunView {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };

@@ -6,15 +6,16 @@
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';
+import { queueName } from './boss';
 import { unpackPath, type StoredPath } from './pathPack';
 import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
 
 type Db = Knex | Knex.Transaction;
-export type StudyStatus = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
+import { ACTIVE_STATUSES, type StudyStatus } from '../../domain/lifecycle';
+export { isActive, type StudyStatus } from '../../domain/lifecycle';
 export { isUuid } from '../../text';
 import { isUuid } from '../../text';
-export const isActive = (s: StudyStatus) => s === 'queued' || s === 'running';
 
 export interface Study {
 	id: string;
@@ -139,6 +140,8 @@ export interface RunRow {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };
@@ -155,7 +158,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -172,6 +175,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		start: starts[r.start_index],
 		outcome: r.outcome,
 		atKink: r.at_kink,
+		outsideData: r.outside_data,
 		reason: r.reason,
 		iterations: r.iterations,
 		evaluations: { f: r.evals_f, grad: r.evals_grad },
@@ -199,6 +203,7 @@ export interface RunColumns {
 	start: number[];
 	outcome: string[];
 	atKink: boolean[];
+	outsideData: boolean[];
 	reason: string[];
 	iterations: number[];
 	evalsF: number[];
@@ -216,7 +221,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -232,6 +237,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		start: [],
 		outcome: [],
 		atKink: [],
+		outsideData: [],
 		reason: [],
 		iterations: [],
 		evalsF: [],
@@ -248,6 +254,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		out.start.push(r.start_index);
 		out.outcome.push(r.outcome);
 		out.atKink.push(r.at_kink);
+		out.outsideData.push(r.outside_data);
 		out.reason.push(r.reason);
 		out.iterations.push(r.iterations);
 		out.evalsF.push(r.evals_f);
@@ -268,10 +275,20 @@ export async function runPath(db: Db, runId: string): Promise<{ studyId: string;
 	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
 }
 
-/** Cancel a queued or running study. Runs already stored stay. */
+/**
+ * Cancel a queued or running study. Runs already stored stay. Its jobs still waiting in
+ * the queue are cancelled in the same transaction, so they never hold a worker thread
+ * (before, every one of a large study's jobs was still fetched and skipped, one by one,
+ * ahead of other studies' work); a job in flight notices between two starts (runner.ts).
+ */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
-	const n = await db('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		const n = await trx('studies').where({ id }).whereIn('status', ACTIVE_STATUSES).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
+		if (n > 0 && (await trx.raw(`SELECT to_regclass('pgboss.job') AS t`)).rows[0].t) {
+			await trx.raw(`UPDATE pgboss.job SET state = 'cancelled', completed_on = now() WHERE name = ? AND state < 'active' AND data->>'studyId' = ?`, [queueName(), id]);
+		}
+		return n > 0;
+	});
 }
 
 export async function pick(db: Db, studyId: string, fitId: string, rationale: string, userId: string): Promise<boolean> {

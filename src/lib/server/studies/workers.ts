@@ -20,6 +20,7 @@ import os from 'node:os';
 import path from 'node:path';
 import type PgBoss from 'pg-boss';
 import type { Knex } from 'knex';
+import { ACTIVE_STATUSES } from '../../domain/lifecycle';
 import { actionMail } from '../mail';
 import { failedQueue, insertJobs, mailQueue, startBoss } from './boss';
 import { mailJob, runsExpireSeconds, type MailJob, type StudyJob } from './jobs';
@@ -188,7 +189,7 @@ export async function markFailed(db: Knex, studyId: string, error: string, queue
 	return db.transaction(async (trx) => {
 		const n = await trx('studies')
 			.where({ id: studyId })
-			.whereIn('status', ['queued', 'running'])
+			.whereIn('status', ACTIVE_STATUSES)
 			.update({ status: 'failed', error: error.slice(0, 2000), finished_at: trx.fn.now() });
 		if (n) await insertJobs(trx, [mailJob(queue, { studyId, event: 'failed' })]);
 		return n > 0;

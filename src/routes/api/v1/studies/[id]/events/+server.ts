@@ -1,4 +1,5 @@
 import type { RequestHandler } from './$types';
+import { isActive } from '$lib/domain/lifecycle';
 import { api } from '$lib/server/api';
 import { studyAccess } from '$lib/server/studies/access';
 import { watch } from '$lib/server/studies/progress';
@@ -24,7 +25,7 @@ export const GET = api<RequestHandler>(async ({ locals, params, request }) => {
 			const unwatch = watch(study.id, (p) => {
 				const data = { status: p.status, done: p.done, total: p.total, audits: p.audits, error: p.error };
 				send('progress', data);
-				if (p.status !== 'queued' && p.status !== 'running') {
+				if (!isActive(p.status)) {
 					send('end', data);
 					stop();
 					controller.close();
