@@ -173,7 +173,7 @@ async function start(dev) {
 		startChild('npx', ['vite', 'dev', '--host', '127.0.0.1', '--port', String(port), '--strictPort'], env, 'vite dev');
 	} else {
 		buildIfStale();
-		startChild('node', ['build'], { ...env, BODY_SIZE_LIMIT: '25M' }, 'server');
+		startChild('node', ['scripts/serve.mjs'], { ...env, BODY_SIZE_LIMIT: '25M' }, 'server');
 	}
 	await waitForHttp(`http://127.0.0.1:${port}/api/health`, 120_000);
 	log(`Kinkless is running at ${env.ORIGIN}`);
@@ -204,7 +204,7 @@ async function test() {
 	buildIfStale();
 	const port = await freePort();
 	const env = await appEnv(databaseUrl, port, { ORIGIN: `http://127.0.0.1:${port}`, KINKLESS_SIGNIN_LIMIT: '10', KINKLESS_SIGNIN_LIMIT_ADDRESS: '100000', KINKLESS_RESET_LIMIT_ADDRESS: '100000' });
-	startChild('node', ['build'], { ...env, BODY_SIZE_LIMIT: '25M' }, 'server');
+	startChild('node', ['scripts/serve.mjs'], { ...env, BODY_SIZE_LIMIT: '25M' }, 'server');
 	await waitForHttp(`http://127.0.0.1:${port}/api/health`);
 	const testEnv = { ...env, KINKLESS_TEST_URL: env.ORIGIN };
 	const results = path.join(root, '.data', 'test-results');

@@ -16,11 +16,21 @@ export async function launch(): Promise<{ context: BrowserContext; close: () => 
 		viewport: { width: 1280, height: 900 },
 		args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
 	});
+	// Every browser test also checks the content policy: a script or style the policy
+	// refused (a broken page in production) fails the test when its browser closes.
+	const refused: string[] = [];
+	const watch = (page: import('playwright-core').Page) =>
+		page.on('console', (msg) => {
+			if (msg.type() === 'error' && /Content Security Policy/i.test(msg.text())) refused.push(`${page.url()}: ${msg.text()}`);
+		});
+	context.pages().forEach(watch);
+	context.on('page', watch);
 	return {
 		context,
 		close: async () => {
 			await context.close();
 			rmSync(dir, { recursive: true, force: true });
+			if (refused.length) throw new Error(`the content security policy refused:\n${refused.join('\n')}`);
 		}
 	};
 }

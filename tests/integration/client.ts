@@ -126,7 +126,7 @@ export async function secondServer(env: Record<string, string | undefined>): Pro
 	const base = `http://127.0.0.1:${port}`;
 	const childEnv: Record<string, string | undefined> = { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: base, SMTP_CATCHER_PORT: String(await freePort()), ...env };
 	for (const k of Object.keys(childEnv)) if (childEnv[k] === undefined) delete childEnv[k];
-	const child = spawn('node', ['build'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
+	const child = spawn('node', ['scripts/serve.mjs'], { env: childEnv as NodeJS.ProcessEnv, stdio: 'ignore' });
 	const stop = () => void child.kill('SIGKILL');
 	for (let i = 0; i < 150 && !(await fetch(`${base}/api/health`).catch(() => null)); i++) await new Promise((r) => setTimeout(r, 100));
 	return { base, stop };

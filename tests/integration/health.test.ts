@@ -11,7 +11,7 @@ describe('GET /api/health', () => {
 
 	it('answers 503 db "down" when the database is unreachable (a second server pointed at a closed port)', async () => {
 		const [port, deadDb] = [await freePort(), await freePort()];
-		const child = spawn('node', ['build'], {
+		const child = spawn('node', ['scripts/serve.mjs'], {
 			env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, DATABASE_URL: `postgres://app@127.0.0.1:${deadDb}/none` },
 			stdio: 'ignore'
 		});

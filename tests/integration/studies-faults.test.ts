@@ -156,6 +156,46 @@ describe('cancelling a study while it runs', () => {
 		expect(again.status).toBe(409);
 		expect((await json<ErrorBody>(again)).error.message).toMatch(/already ended \(cancelled\)/);
 	});
+
+	it('frees the worker threads at once: no job of the cancelled study waits or runs, and the next study is not queued behind it', { timeout: 120_000 }, async () => {
+		const big = await launch(t.editor.client, t.ws.slug, {
+			name: 'Cancelled at once',
+			datasetId,
+			output: 'eta',
+			problem: { kind: 'maximize' },
+			fits: [{ method: 'linear' }, { method: 'pchip' }, { method: 'akima' }, { method: 'cubic-natural' }, { method: 'softened-linear' }],
+			optimizers: [{ method: 'sqp' }, { method: 'bfgs' }, { method: 'nelder-mead' }],
+			starts: { latinHypercube: 1000, seed: 4 }
+		});
+		await waitFor(t.editor.client, big, (s) => s.progress.done > 0 || (s.status !== 'queued' && s.status !== 'running'));
+		const jobsOf = async (states: string[]) =>
+			Number((await testDb().raw(`SELECT count(*) AS n FROM pgboss.job WHERE data->>'studyId' = ? AND state::text = ANY(?)`, [big, states])).rows[0].n);
+		expect(await jobsOf(['created', 'retry'])).toBeGreaterThan(10);
+		expect((await t.editor.client.post(`/api/v1/studies/${big}/cancel`)).status).toBe(200);
+		// the waiting jobs went with the cancellation, in the same transaction
+		expect(await jobsOf(['created', 'retry'])).toBe(0);
+		// jobs in flight stop between two starts (checked every 100 ms): give them 3 s
+		let active = await jobsOf(['active']);
+		for (let i = 0; i < 30 && active > 0; i++) {
+			await new Promise((res) => setTimeout(res, 100));
+			active = await jobsOf(['active']);
+		}
+		expect(active).toBe(0);
+		// a small study launched now runs on the freed threads (before the fix it waited for
+		// every job of the cancelled study to be fetched and skipped)
+		const small = await launch(t.editor.client, t.ws.slug, {
+			name: 'After the cancel',
+			datasetId,
+			output: 'eta',
+			problem: { kind: 'maximize' },
+			fits: [{ method: 'pchip' }],
+			optimizers: [{ method: 'bfgs' }],
+			starts: { latinHypercube: 4, seed: 1 }
+		});
+		const done = await waitFor(t.editor.client, small, undefined, 15_000);
+		expect(done.status).toBe('done');
+		expect(done.progress).toEqual({ done: 4, total: 4 });
+	});
 });
 
 describe('a job that keeps failing', () => {

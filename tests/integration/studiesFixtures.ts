@@ -29,7 +29,7 @@ export type StudyBody = {
 	error: string | null;
 };
 export type RunBody = {
-	id: number;
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;

@@ -1,12 +1,17 @@
 // A dataset found by id, through the role check of its workspace.
 import type { Role } from '$lib/schemas';
-import { workspaceAccessById, type Access } from './access';
+import { requireUser, workspaceAccessById, type Access } from './access';
 import { fail4xx } from './api';
 import { db } from './db';
 import * as datasetStore from './datasetStore';
 
-/** The dataset's metadata and the caller's access; 404 for unknown ids and for outsiders alike. */
+/**
+ * The dataset's metadata and the caller's access; 404 for unknown ids and for outsiders
+ * alike. A caller who is not signed in gets 401 before any lookup, whatever the id, so
+ * the answer never tells an existing id from a made-up one.
+ */
 export async function datasetAccess(locals: App.Locals, id: string, need: Role = 'viewer'): Promise<{ access: Access; dataset: datasetStore.DatasetMeta }> {
+	requireUser(locals);
 	const dataset = await datasetStore.get(db(), id);
 	if (!dataset) fail4xx(404, 'no such dataset');
 	try {

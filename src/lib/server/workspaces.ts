@@ -65,15 +65,48 @@ export async function invite(db: Db, workspaceId: string, invitedBy: string, ema
 	const already = await db('memberships as m').join('users as u', 'u.id', 'm.user_id').where({ 'm.workspace_id': workspaceId, 'u.email': email }).first('u.id');
 	if (already) fail4xx(409, `${email} is already a member of this workspace`, 'already-member', [{ field: 'email', problem: 'already a member' }]);
 	const token = newSecret(32);
-	await db('invitations').insert({
-		workspace_id: workspaceId,
-		email,
-		role,
-		token_hash: sha256(token),
-		invited_by: invitedBy,
-		expires_at: db.raw(`now() + interval '${INVITE_DAYS} days'`)
+	await db.transaction(async (trx) => {
+		// one invitation at a time per workspace and per sender, so the counts below are exact
+		await trx.raw('SELECT pg_advisory_xact_lock(hashtext(?)), pg_advisory_xact_lock(hashtext(?))', [`invite-ws:${workspaceId}`, `invite-user:${invitedBy}`]);
+		await checkInviteLimits(trx, workspaceId, invitedBy, email);
+		await trx('invitations').insert({
+			workspace_id: workspaceId,
+			email,
+			role,
+			token_hash: sha256(token),
+			invited_by: invitedBy,
+			expires_at: trx.raw(`now() + interval '${INVITE_DAYS} days'`)
+		});
 	});
 	return token;
+}
+
+/**
+ * Invitations are e-mail sent in our name to any address, so they are limited: per
+ * workspace a day, per sender an hour (across workspaces), and per address in a
+ * workspace a day (a few resends). The 429 names the limit that was reached.
+ */
+export const inviteLimits = () => ({
+	workspacePerDay: Number(process.env.KINKLESS_INVITE_LIMIT_WORKSPACE ?? 50),
+	senderPerHour: Number(process.env.KINKLESS_INVITE_LIMIT_SENDER ?? 20),
+	addressPerDay: 3
+});
+
+async function checkInviteLimits(db: Db, workspaceId: string, invitedBy: string, email: string): Promise<void> {
+	const l = inviteLimits();
+	const count = async (where: Record<string, string>, interval: string) =>
+		Number((await db('invitations').where(where).andWhere('created_at', '>', db.raw(`now() - interval '${interval}'`)).count<{ n: string }[]>('* as n'))[0].n);
+	if ((await count({ workspace_id: workspaceId, email }, '1 day')) >= l.addressPerDay) {
+		fail4xx(429, `${email} was already invited ${l.addressPerDay} times today in this workspace; the last link still works for ${INVITE_DAYS} days, or try again tomorrow`, 'too-many-invitations', [
+			{ field: 'email', problem: `at most ${l.addressPerDay} invitations a day to one address` }
+		]);
+	}
+	if ((await count({ workspace_id: workspaceId }, '1 day')) >= l.workspacePerDay) {
+		fail4xx(429, `this workspace has sent ${l.workspacePerDay} invitations in the last 24 hours, the most it may; try again later`, 'too-many-invitations');
+	}
+	if ((await count({ invited_by: invitedBy }, '1 hour')) >= l.senderPerHour) {
+		fail4xx(429, `you have sent ${l.senderPerHour} invitations in the last hour, the most one person may; try again later`, 'too-many-invitations');
+	}
 }
 
 export type InvitationView = { id: string; email: string; role: Role; workspace_id: string; workspace_slug: string; workspace_name: string; inviter: string | null };

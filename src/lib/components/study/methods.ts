@@ -25,11 +25,11 @@ export const OPTIMIZER_NOTES: Record<string, string> = {
 };
 
 export const OUTCOME_NOTES: Record<string, string> = {
-	converged: 'met the first-order test',
+	converged: 'the slope fell to the gradient tolerance (relative to the slope at the start) and the point passed the second-order check',
 	stalled: 'stopped making progress before the tolerance',
 	'iteration-limit': 'ran out of iterations, evaluations or time',
 	'left-domain': 'asked for a point outside the data under the refuse rule',
-	diverged: 'reached a value that is not a finite number'
+	diverged: 'ran off to infinity, reached a value that is not a finite number, or broke down'
 };
 
 /** A number for a table cell: a few significant digits, no trailing zeros. */

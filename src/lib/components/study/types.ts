@@ -3,7 +3,7 @@ export type Outcome = 'converged' | 'stalled' | 'iteration-limit' | 'left-domain
 export type Status = 'queued' | 'running' | 'done' | 'failed' | 'cancelled';
 
 export interface RunView {
-	id: number;
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;
@@ -12,6 +12,8 @@ export interface RunView {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };

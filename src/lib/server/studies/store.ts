@@ -6,6 +6,7 @@
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';
+import { queueName } from './boss';
 import { unpackPath, type StoredPath } from './pathPack';
 import { unpackStarts } from './runner';
 import type { StudySpec } from './spec';
@@ -129,7 +130,8 @@ export async function fits(db: Db, studyId: string, withSamples = false): Promis
 }
 
 export interface RunRow {
-	id: number;
+	/** the run's public id (random; the sequential key stays in the database) */
+	id: string;
 	fitId: string;
 	method: string;
 	optimizer: string;
@@ -138,6 +140,8 @@ export interface RunRow {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };
@@ -154,7 +158,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -162,7 +166,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 	const [rows, startsRow] = await Promise.all([q, db('studies').where({ id: study.id }).first('starts')]);
 	const starts = unpackStarts(startsRow.starts, study.startCount, study.nInputs);
 	return rows.map((r) => ({
-		id: Number(r.id),
+		id: r.id as string,
 		fitId: r.fit_id,
 		method: r.method,
 		optimizer: study.spec.optimizers[r.optimizer]?.method ?? String(r.optimizer),
@@ -171,6 +175,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		start: starts[r.start_index],
 		outcome: r.outcome,
 		atKink: r.at_kink,
+		outsideData: r.outside_data,
 		reason: r.reason,
 		iterations: r.iterations,
 		evaluations: { f: r.evals_f, grad: r.evals_grad },
@@ -192,12 +197,13 @@ export interface RunColumns {
 	optimizers: string[];
 	/** start points, n numbers each, by start index */
 	starts: number[];
-	id: number[];
+	id: string[];
 	fit: number[];
 	optimizer: number[];
 	start: number[];
 	outcome: string[];
 	atKink: boolean[];
+	outsideData: boolean[];
 	reason: string[];
 	iterations: number[];
 	evalsF: number[];
@@ -215,7 +221,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -231,6 +237,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		start: [],
 		outcome: [],
 		atKink: [],
+		outsideData: [],
 		reason: [],
 		iterations: [],
 		evalsF: [],
@@ -241,12 +248,13 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		ms: []
 	};
 	for (const r of rows) {
-		out.id.push(Number(r.id));
+		out.id.push(r.id as string);
 		out.fit.push(r.position);
 		out.optimizer.push(r.optimizer);
 		out.start.push(r.start_index);
 		out.outcome.push(r.outcome);
 		out.atKink.push(r.at_kink);
+		out.outsideData.push(r.outside_data);
 		out.reason.push(r.reason);
 		out.iterations.push(r.iterations);
 		out.evalsF.push(r.evals_f);
@@ -261,16 +269,26 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 
 /** A run's path with the study it belongs to (for the access check). */
 export async function runPath(db: Db, runId: string): Promise<{ studyId: string; path: StoredPath } | null> {
-	if (!/^\d{1,18}$/.test(runId)) return null;
-	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
+	if (!isUuid(runId)) return null;
+	const row = await db('study_runs as r').join('studies as s', 's.id', 'r.study_id').where('r.public_id', runId).first('r.study_id', 'r.path', 'r.path_length', 's.n_inputs');
 	if (!row) return null;
 	return { studyId: row.study_id, path: unpackPath(row.path, row.n_inputs, row.path_length) };
 }
 
-/** Cancel a queued or running study. Runs already stored stay. */
+/**
+ * Cancel a queued or running study. Runs already stored stay. Its jobs still waiting in
+ * the queue are cancelled in the same transaction, so they never hold a worker thread
+ * (before, every one of a large study's jobs was still fetched and skipped, one by one,
+ * ahead of other studies' work); a job in flight notices between two starts (runner.ts).
+ */
 export async function cancel(db: Db, id: string, userId: string | null): Promise<boolean> {
-	const n = await db('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: db.fn.now(), cancelled_by: userId });
-	return n > 0;
+	return db.transaction(async (trx) => {
+		const n = await trx('studies').where({ id }).whereIn('status', ['queued', 'running']).update({ status: 'cancelled', finished_at: trx.fn.now(), cancelled_by: userId });
+		if (n > 0 && (await trx.raw(`SELECT to_regclass('pgboss.job') AS t`)).rows[0].t) {
+			await trx.raw(`UPDATE pgboss.job SET state = 'cancelled', completed_on = now() WHERE name = ? AND state < 'active' AND data->>'studyId' = ?`, [queueName(), id]);
+		}
+		return n > 0;
+	});
 }
 
 export async function pick(db: Db, studyId: string, fitId: string, rationale: string, userId: string): Promise<boolean> {
@@ -287,6 +305,8 @@ export interface Share {
 	createdAt: Date;
 	expiresAt: Date | null;
 	createdBy: string | null;
+	/** link holders see member names (who launched, who picked) */
+	showNames: boolean;
 }
 
 /** The study's live link, if any (the token itself is never stored). */
@@ -297,32 +317,48 @@ export async function activeShare(db: Db, studyId: string): Promise<Share | null
 		.whereNull('sh.revoked_at')
 		.where((q) => q.whereNull('sh.expires_at').orWhere('sh.expires_at', '>', db.fn.now()))
 		.orderBy('sh.created_at', 'desc')
-		.first('sh.id', 'sh.created_at', 'sh.expires_at', 'u.name');
-	return row ? { id: row.id, createdAt: row.created_at, expiresAt: row.expires_at, createdBy: row.name ?? null } : null;
+		.first('sh.id', 'sh.created_at', 'sh.expires_at', 'sh.show_names', 'u.name');
+	return row ? { id: row.id, createdAt: row.created_at, expiresAt: row.expires_at, createdBy: row.name ?? null, showNames: row.show_names === true } : null;
 }
 
 /** A new read-only link (256-bit token, stored hashed); any earlier link of the study is revoked. */
-export async function createShare(db: Knex, studyId: string, userId: string, expiresInDays?: number): Promise<{ token: string; expiresAt: Date | null }> {
+export async function createShare(
+	db: Knex,
+	studyId: string,
+	userId: string,
+	expiresInDays?: number,
+	showNames = false
+): Promise<{ token: string; expiresAt: Date | null; showNames: boolean }> {
 	const token = newSecret(32);
 	const expiresAt = expiresInDays ? new Date(Date.now() + expiresInDays * 86_400_000) : null;
 	await db.transaction(async (trx) => {
 		await trx('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: trx.fn.now() });
-		await trx('study_shares').insert({ study_id: studyId, token_hash: sha256(token), created_by: userId, expires_at: expiresAt });
+		await trx('study_shares').insert({ study_id: studyId, token_hash: sha256(token), created_by: userId, expires_at: expiresAt, show_names: showNames });
 	});
-	return { token, expiresAt };
+	return { token, expiresAt, showNames };
+}
+
+/** Show or hide member names on the study's live link; false when the study has no live link. */
+export async function setShareNames(db: Db, studyId: string, showNames: boolean): Promise<boolean> {
+	const n = await db('study_shares')
+		.where({ study_id: studyId })
+		.whereNull('revoked_at')
+		.where((q) => q.whereNull('expires_at').orWhere('expires_at', '>', db.fn.now()))
+		.update({ show_names: showNames });
+	return n > 0;
 }
 
 export async function revokeShares(db: Db, studyId: string): Promise<number> {
 	return db('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: db.fn.now() });
 }
 
-/** The study a share token opens, checked on every request (so revoking takes effect at once). */
-export async function studyIdForToken(db: Db, token: string): Promise<string | null> {
+/** The study a share token opens and whether it shows member names, checked on every request (so revoking takes effect at once). */
+export async function shareForToken(db: Db, token: string): Promise<{ studyId: string; showNames: boolean } | null> {
 	if (!/^[A-Za-z0-9_-]{20,200}$/.test(token)) return null;
 	const row = await db('study_shares')
 		.where({ token_hash: sha256(token) })
 		.whereNull('revoked_at')
 		.where((q) => q.whereNull('expires_at').orWhere('expires_at', '>', db.fn.now()))
-		.first('study_id');
-	return row?.study_id ?? null;
+		.first('study_id', 'show_names');
+	return row ? { studyId: row.study_id, showNames: row.show_names === true } : null;
 }
