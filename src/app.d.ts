@@ -10,6 +10,8 @@ declare global {
 			session: import('lucia').Session | null;
 			/** set when the request was authenticated by an API token rather than a cookie */
 			viaToken: boolean;
+			/** set by handleError when a load could not reach the database (the answer becomes 503) */
+			databaseDown: boolean;
 		}
 	}
 }

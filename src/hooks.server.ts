@@ -1,7 +1,7 @@
 import { json, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
 import { auth } from '$lib/server/auth';
 import * as apiTokens from '$lib/server/apiTokens';
-import { errorBody } from '$lib/server/api';
+import { databaseUnavailable, errorBody, unavailableResponse } from '$lib/server/api';
 import { controlCharacterIn } from '$lib/text';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
@@ -20,9 +20,29 @@ const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 const SIMPLE_BODY = /^(application\/x-www-form-urlencoded|multipart\/form-data|text\/plain)/i;
 
 export const handle: Handle = async ({ event, resolve }) => {
+	try {
+		return await handleRequest({ event, resolve });
+	} catch (e) {
+		// the session lookup (or anything before the route) found no database
+		if (databaseUnavailable(e)) return unavailable(event.url.pathname.startsWith('/api/'));
+		throw e;
+	}
+};
+
+function unavailable(isApi: boolean): Response {
+	if (isApi) return unavailableResponse();
+	const r = unavailableResponse();
+	return new Response('Kinkless cannot reach its database for the moment (it may be restarting). Nothing was changed; reload this page in a few seconds.', {
+		status: 503,
+		headers: { 'content-type': 'text/plain; charset=utf-8', 'retry-after': r.headers.get('retry-after')! }
+	});
+}
+
+const handleRequest: Handle = async ({ event, resolve }) => {
 	event.locals.user = null;
 	event.locals.session = null;
 	event.locals.viaToken = false;
+	event.locals.databaseDown = false;
 	const isApi = event.url.pathname.startsWith('/api/');
 	// a path (slug, id) with a NUL or other control character names nothing here
 	let decodedPath = '';
@@ -74,7 +94,14 @@ export const handle: Handle = async ({ event, resolve }) => {
 		}
 	}
 
-	const response = await resolve(event);
+	let response = await resolve(event);
+	// a page whose load found no database: 503 with retry-after, not 500
+	if (event.locals.databaseDown && response.status === 500) return unavailable(isApi);
+	// methods a route does not have: the API's error shape, with SvelteKit's Allow header
+	if (isApi && response.status === 405 && !response.headers.get('content-type')?.includes('json')) {
+		const allow = response.headers.get('allow') ?? '';
+		response = json(errorBody(405, `${event.request.method} is not allowed here${allow ? `; this path allows ${allow}` : ''}`), { status: 405, headers: allow ? { allow } : {} });
+	}
 	// The headers every response carries (nosniff, frame and referrer policy, HSTS over
 	// https, a default content policy) are set by scripts/serve.mjs, static files included;
 	// pages get SvelteKit's content policy (svelte.config.js). Here: nothing a signed-in
@@ -85,7 +112,11 @@ export const handle: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handleError: HandleServerError = ({ error, status, message }) => {
+export const handleError: HandleServerError = ({ error, event, status, message }) => {
+	if (databaseUnavailable(error)) {
+		event.locals.databaseDown = true;
+		return { code: 'unavailable', message: 'the database is unavailable for the moment; retry in a few seconds' };
+	}
 	if (status >= 500) console.error(error);
 	return { code: status === 404 ? 'not-found' : 'internal', message: status === 404 ? 'not found' : message };
 };

@@ -30,6 +30,40 @@ async function screenshot(page: Page, name: string) {
 }
 
 describe('studies in the browser', () => {
+	it('warns when the bounds reach beyond the data and flags the runs that end outside it (1440 and 390 px)', async () => {
+		const r = await context.request.post(`/api/v1/workspaces/${slug}/studies`, {
+			data: {
+				name: `Beyond the data ${tag}`,
+				datasetId,
+				output: 'eta',
+				problem: { kind: 'minimize', bounds: [[0.1, 3]] },
+				fits: [{ method: 'pchip', options: { extrapolation: 'hold' } }],
+				optimizers: [{ method: 'bfgs' }, { method: 'nelder-mead' }],
+				starts: { points: [[0.5], [1.8], [2.5]] }
+			}
+		});
+		expect(r.status()).toBe(202);
+		const { id } = await r.json();
+		const page = await context.newPage();
+		for (const width of [1440, 390]) {
+			await page.setViewportSize({ width, height: 900 });
+			await page.goto(`/w/${slug}/studies/${id}`);
+			await page.getByRole('heading', { name: 'Scorecard' }).waitFor({ timeout: 90_000 });
+			await page.getByTestId('study-status').getByText('done').waitFor({ timeout: 90_000 });
+			await page.getByTestId('outside-data').first().waitFor({ timeout: 30_000 });
+			await expect(page.getByTestId('launch-warning').textContent()).resolves.toMatch(/reach beyond the data \[0\.1, 1\.5\]/);
+			await expect(page.getByTestId('outside-data').first().isVisible()).resolves.toBe(true);
+			await expect(page.getByTestId('scorecard').textContent()).resolves.toMatch(/outside the data/);
+			await screenshot(page, `study-outside-data-${width}`);
+			// the parts this test is about, at readable size
+			await page.getByTestId('launch-warning').scrollIntoViewIfNeeded();
+			await page.screenshot({ path: `.data/screenshots/study-outside-data-${width}-top.png` });
+			await page.getByTestId('outside-data').first().scrollIntoViewIfNeeded();
+			await page.screenshot({ path: `.data/screenshots/study-outside-data-${width}-runs.png` });
+		}
+		await page.close();
+	});
+
 	it('launches a study from the form and reads its results', async () => {
 		const page = await context.newPage();
 		await page.goto(`/w/${slug}`);

@@ -52,10 +52,10 @@ describe('unreadable files', () => {
 
 	it('mixed delimiters, naming the rows', async () => {
 		const body = await refused(t.ws.id, 422, send(csv('J,eta,ct', '0.1,0.3,0.1', '0.2,0.5,0.09', '0.3;0.6;0.08', '0.4,0.7,0.07')));
-		expect(body.error.code).toBe('mixed-delimiters');
+		expect(body.error.code).toBe('invalid-dataset');
 		expect(body.error.message).toContain('row 4');
 		expect(body.error.message).toContain("';'");
-		expect(body.error.details?.[0]).toMatchObject({ row: 4 });
+		expect(body.error.details).toEqual([{ row: 4, problem: "row 4 uses ';' as the delimiter instead of ','" }]);
 	});
 });
 

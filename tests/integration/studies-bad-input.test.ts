@@ -117,7 +117,7 @@ describe('launching a study with bad input', () => {
 	});
 
 	it('a grid dataset, a dataset of another workspace, an output that is not there', async () => {
-		await refused({ ...good(), datasetId: gridId, output: 'p' }, 422, 'datasetId', /only curve datasets can be studied yet; "Small grid \(invented\)" is a grid dataset/);
+		await refused({ ...good(), datasetId: gridId, output: 'p' }, 422, 'fits.0.method', /pchip is a curve method \(one input\); "Small grid \(invented\)" is a grid of 2 inputs/);
 		await refused({ ...good(), datasetId: '00000000-0000-4000-8000-000000000000' }, 422, 'datasetId', /no dataset with this id in this workspace/);
 		await refused({ ...good(), output: 'J' }, 422, 'output', /"J" is not an output/);
 		await refused({ ...good(), datasetId: 'nope' }, 422, 'datasetId', /datasetId must be a dataset id/);

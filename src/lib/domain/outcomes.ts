@@ -8,9 +8,9 @@ export const OUTCOMES = ['converged', 'stalled', 'iteration-limit', 'left-domain
 export type Outcome = (typeof OUTCOMES)[number];
 
 export const OUTCOME_MEANINGS: Readonly<Record<Outcome, string>> = {
-	converged: 'met the first-order test',
+	converged: 'the slope fell to the gradient tolerance (relative to the slope at the start) and the point passed the second-order check',
 	stalled: 'stopped making progress before the tolerance',
 	'iteration-limit': 'ran out of iterations, evaluations or time',
 	'left-domain': 'asked for a point outside the data under the refuse rule',
-	diverged: 'reached a value that is not a finite number'
+	diverged: 'ran off to infinity, reached a value that is not a finite number, or broke down'
 };

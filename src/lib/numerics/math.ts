@@ -38,3 +38,15 @@ export function maxAbs(v: ArrayLike<number>): number {
 	}
 	return m;
 }
+
+/**
+ * lim of Σ a_k x^k as x → sign·∞ (a ascending): led by the highest non-zero
+ * coefficient; a constant (or an empty list, 0) stays finite — where Horner's
+ * rule at x = ±∞ would form 0·∞ = NaN on a zero leading coefficient.
+ */
+export function polynomialLimit(a: ArrayLike<number>, sign: 1 | -1): number {
+	let k = a.length - 1;
+	while (k > 0 && a[k] === 0) k--;
+	if (k < 0) return 0;
+	return k === 0 ? a[0] : Math.sign(a[k]) * sign ** k * Infinity;
+}

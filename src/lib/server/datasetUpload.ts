@@ -17,6 +17,8 @@ import {
 import * as datasetStore from './datasetStore';
 import { controlCharacterIn } from '$lib/text';
 import { clipForMessage } from './datasets/limits';
+import { previewRows, type PreviewRow } from './datasets/previewRows';
+import { issueDetails } from './datasets/reportErrorBody';
 import { fail4xx } from './api';
 import type { ParseInput } from './datasets/parseTable';
 import { PARSE_HEAP_MB } from './datasets/limits';
@@ -30,6 +32,8 @@ const FORM_OVERHEAD = 1024 * 1024;
 export const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
 const MAX_DESCRIPTION = 2000;
 const HEAD_ROWS = 8;
+/** Rows with problems the preview shows beside the first rows. */
+const PROBLEM_ROWS = 30;
 
 const ROLE_ERROR = { error: 'a column role must be "input" or "output"' };
 
@@ -211,11 +215,16 @@ export interface UploadReport {
 	inputs: string[];
 	outputs: string[];
 	rowCount: number;
+	/** table-wide problems, then row by row; bounded, the last one saying how many more */
 	errors: ErrorDetail[];
+	/** every problem found, listed or not */
+	problemCount: number;
+	/** rows with the wrong number of fields, left out of rowCount */
+	leftOutCount: number;
 	warnings: string[];
 	notes: string[];
-	/** the first rows as read, and the row numbers the user sees for them */
-	head: { row: number; cells: (string | number | null)[] }[];
+	/** the first rows as read and the rows with problems, in row order, bad cells marked */
+	head: PreviewRow[];
 }
 
 export function uploadReport(parsed: ParsedTable, report: ValidationReport, name: string, version: number, filename: string | null): UploadReport {
@@ -234,14 +243,12 @@ export function uploadReport(parsed: ParsedTable, report: ValidationReport, name
 		inputs: report.columns.filter((c) => c.role === 'input').map((c) => c.name),
 		outputs: report.columns.filter((c) => c.role === 'output').map((c) => c.name),
 		rowCount: report.rowCount,
-		errors: report.errors.map((e) => ({
-			...(e.row !== undefined ? { row: e.row } : {}),
-			...(e.column !== undefined ? { column: e.column } : {}),
-			problem: e.message
-		})),
+		errors: issueDetails(report.errors),
+		problemCount: report.problemCount,
+		leftOutCount: parsed.badRowCount ?? 0,
 		warnings: report.warnings,
 		notes: report.notes,
-		head: parsed.rows.slice(0, HEAD_ROWS).map((cells, i) => ({ row: parsed.rowNumbers[i], cells }))
+		head: previewRows(parsed, report.errors, { head: HEAD_ROWS, problemRows: PROBLEM_ROWS })
 	};
 }
 

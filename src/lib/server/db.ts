@@ -16,7 +16,11 @@ export function db(): Knex {
 
 /** A raw pg pool for lucia's adapter (it speaks pg directly). */
 export function pgPool(): pg.Pool {
-	pool ??= new pg.Pool({ connectionString: String(config.connection), max: 5 });
+	if (!pool) {
+		pool = new pg.Pool({ connectionString: String(config.connection), max: 5 });
+		// an idle connection dropped by a database restart: the pool replaces it on the next request
+		pool.on('error', (e) => console.error('kinkless: idle database connection lost:', e.message));
+	}
 	return pool;
 }
 

@@ -43,11 +43,21 @@ describe('parseTable: files that cannot be read', () => {
 		await expectDatasetError(parseFile('J,eta\n-,-\n'), 'no-rows', 'no data rows');
 	});
 
-	test('mixed delimiters name the rows that differ', async () => {
+	test('rows in another delimiter are left out and named; the rest is read', async () => {
 		const text = ['J,eta,ct', '0.1,0.42,0.11', '0.2;0.55;0.10', '0.3,0.63,0.09', '0.4;0.70;0.08', '0.5,0.74,0.07'].join('\n');
-		const error = await expectDatasetError(parseFile(text), 'mixed-delimiters', 'rows 3 and 5', "';'", "','");
-		expect(error.details.map((d) => d.row)).toEqual([3, 5]);
-		expect(error.details[0].problem).toBe("uses ';' as the delimiter instead of ','");
+		const parsed = await parseFile(text);
+		expect(parsed.rowNumbers).toEqual([2, 4, 6]);
+		expect(parsed.badRowCount).toBe(2);
+		expect(parsed.badRows).toEqual([
+			{ row: 3, code: 'mixed-delimiters', problem: "uses ';' as the delimiter instead of ','", cells: ['0.2;0.55;0.10'] },
+			{ row: 5, code: 'mixed-delimiters', problem: "uses ';' as the delimiter instead of ','", cells: ['0.4;0.70;0.08'] }
+		]);
+	});
+
+	test('a header in another delimiter than every data row stops the read, naming the rows', async () => {
+		const text = ['J;eta;ct', '0.1,0.42,0.11', '0.2,0.55,0.10'].join('\n');
+		const error = await expectDatasetError(parseFile(text), 'mixed-delimiters', 'row 1', "';'", "','");
+		expect(error.details).toEqual([{ row: 1, problem: "uses ';' as the delimiter instead of ','" }]);
 	});
 
 	test('mixed delimiters in pasted text, decimal commas and all', async () => {
@@ -58,9 +68,30 @@ describe('parseTable: files that cannot be read', () => {
 		expect(parsed.rows[2]).toEqual(['0,3', '0,6']);
 	});
 
-	test('a row with a missing field is named', async () => {
-		const error = await expectDatasetError(parseFile('x,y,z\n1,2,3\n4,5\n7,8,9\n'), 'field-count', 'row 3', 'has 2 fields');
-		expect(error.details).toEqual([{ row: 3, problem: 'has 2 fields; the table has 3' }]);
+	test('a row with a missing field or an extra one is left out and named, its cells kept as read', async () => {
+		const parsed = await parseFile('x,y,z\n1,2,3\n4,5\n7,8,9\n10,11,12,13\n');
+		expect(parsed.rows).toEqual([
+			[1, 2, 3],
+			[7, 8, 9]
+		]);
+		expect(parsed.rowNumbers).toEqual([2, 4]);
+		expect(parsed.badRows).toEqual([
+			{ row: 3, code: 'field-count', problem: 'has 2 fields; the table has 3', cells: [4, 5] },
+			{ row: 5, code: 'field-count', problem: 'has 4 fields; the table has 3', cells: [10, 11, 12, 13] }
+		]);
+	});
+
+	test('a header with the wrong number of fields stops the read (no columns to read the rows into)', async () => {
+		const error = await expectDatasetError(parseFile('x,y,z,w\n1,2,3\n4,5,6\n7,8,9\n'), 'field-count', 'row 1', 'has 4 fields');
+		expect(error.details).toEqual([{ row: 1, problem: 'has 4 fields; the table has 3' }]);
+	});
+
+	test('every data row with the wrong number of fields stops the read, naming them (not "no data rows")', async () => {
+		const error = await expectDatasetError(parseFile('x,y,z\n-,-,-\n1,2\n3,4,5,6\n'), 'field-count', 'rows 3 and 4');
+		expect(error.details).toEqual([
+			{ row: 3, problem: 'has 2 fields; the table has 3' },
+			{ row: 4, problem: 'has 4 fields; the table has 3' }
+		]);
 	});
 
 	test('an unclosed quote is named', async () => {

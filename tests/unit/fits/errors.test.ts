@@ -85,6 +85,25 @@ describe('non-finite values', () => {
 		expect(e.rows).toEqual([3, 4, 5]);
 		expect(e.message).toContain('rows 3, 4, 5');
 	});
+	it('refuses null, booleans and numeric strings on the fast path and the checked path alike, naming the rows (never read as 0 or converted)', () => {
+		const X = [0, 1, 2, 3, 4, 5];
+		const Y = [0, 1, 4, 9, 16, 25];
+		for (const bad of [null, true, false, '3', undefined]) {
+			for (const [x, y] of [
+				[X.map((v, i) => (i === 2 ? bad : v)), Y],
+				[X, Y.map((v, i) => (i === 2 ? bad : v))]
+			]) {
+				for (const method of ['linear', 'pchip', 'cubic-natural', 'polynomial-least-squares'] as const) {
+					const e = fitError(() => fitCurve(method, x as number[], y as number[]));
+					expect(e.code, `${method} ${String(bad)}`).toBe('non-finite');
+					expect(e.rows).toEqual([3]);
+					expect(e.message).toMatch(/not a number .* row 3/);
+					// also with nonFinite: 'drop' — a value of the wrong type is not a missing number
+					expect(fitError(() => fitCurve(method, x as number[], y as number[], { nonFinite: 'drop' })).code).toBe('non-finite');
+				}
+			}
+		}
+	});
 	it("nonFinite: 'drop' leaves the rows out and says so", () => {
 		const fit = fitCurve('linear', [0, 1, NaN, 3], [0, 1, 2, 3], { nonFinite: 'drop' });
 		expect(Array.from(fit.knots)).toEqual([0, 1, 3]);
@@ -174,6 +193,29 @@ describe('extrapolation rules', () => {
 		expect(j.df).toBe(e.df);
 		expect(j.d2f).toBe(0);
 		expect(j.f).toBeCloseTo(e.f + 2 * e.df, 13);
+	});
+	it('f(±∞) under linear and extend: the edge value where the edge slope is 0 (never NaN), else ±∞ with the sign of the slope (common practice, no source)', () => {
+		// flat ends: linear through [1, 1, 3, 3] has slope 0 on its first and last piece
+		const flatX = [0, 1, 2, 3];
+		const flatY = [1, 1, 3, 3];
+		for (const rule of ['linear', 'extend'] as const) {
+			for (const method of ['linear', 'pchip'] as const) {
+				const fit = fitCurve(method, flatX, flatY, { extrapolation: rule });
+				expect(fit.evaluate(-Infinity), `${method} ${rule}`).toEqual({ f: 1, df: 0, d2f: 0, outside: true });
+				expect(fit.evaluate(Infinity), `${method} ${rule}`).toEqual({ f: 3, df: 0, d2f: 0, outside: true });
+				expect(Array.from(fit.evaluateMany([-Infinity, Infinity]).f)).toEqual([1, 3]);
+			}
+			// a rising linear end goes to +∞ on the right and −∞ on the left
+			const up = fitCurve('linear', [0, 1, 2], [0, 1, 2], { extrapolation: rule });
+			expect(up.evaluate(Infinity).f).toBe(Infinity);
+			expect(up.evaluate(-Infinity).f).toBe(-Infinity);
+			expect(up.evaluate(Infinity).df).toBe(1);
+		}
+		// a straight least-squares line with zero slope (constant data)
+		const lsq = fitCurve('polynomial-least-squares', [0, 1, 2, 3], [2, 2, 2, 2], { degree: 2, extrapolation: 'extend' });
+		expect(lsq.evaluate(Infinity).f).toBe(2);
+		expect(lsq.evaluate(-Infinity).df === 0).toBe(true); // ±0: the data are constant
+		expect(fitCurve('polynomial-least-squares', [0, 1, 2, 3], [2, 2, 2, 2], { degree: 1, extrapolation: 'linear' }).evaluate(-Infinity).f).toBe(2);
 	});
 	it("'extend' evaluates the edge piece", () => {
 		const fit = fitCurve('cubic-natural', x, y, { extrapolation: 'extend' });

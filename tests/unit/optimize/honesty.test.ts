@@ -94,7 +94,8 @@ function checkHonest(r: RunResult, fun: (x: number[]) => Evaluation, calls: numb
 	expect(r.evaluations.grad).toBeLessThanOrEqual(r.evaluations.f);
 	expect(r.path.x.length).toBe(r.iterations + 1);
 	expect(r.path.f.length).toBe(r.path.x.length);
-	if (r.atKink) expect(r.outcome).toBe('stalled');
+	// these objectives declare no kinks, so no run may say it ended at one
+	expect(r.atKink).toBe(false);
 	if (r.outcome === 'converged') {
 		expect(r.x.every(Number.isFinite)).toBe(true);
 		expect(Number.isFinite(r.f)).toBe(true);
@@ -175,7 +176,9 @@ describe('honest endings, case by case', () => {
 		const r = optimize({ kind: 'minimize', objective }, 'bfgs', {}, [1, 0.5]);
 		expect(r.resets).toBeGreaterThan(0);
 		expect(r.outcome, r.reason).toBe('converged');
-		expect(r.x).toEqual([0, 2]);
+		// y on its bound exactly; x at 0 to rounding (common practice, no source)
+		expect(r.x[1]).toBe(2);
+		expect(Math.abs(r.x[0])).toBeLessThanOrEqual(1e-12);
 	});
 
 	it('at a non-smooth minimum (|x − 1| + 0.001x²) gradient methods stall at the kink, flagged, not converged', () => {

@@ -37,6 +37,7 @@ function row(c: Case, bestLoo: number, kind = 'maximize'): Omit<ScorecardRow, 'r
 		best: null,
 		outcomes: { converged: Math.round(20 * c.successRate), stalled: 20 - Math.round(20 * c.successRate), 'iteration-limit': 0, 'left-domain': 0, diverged: 0 },
 		atKink: c.atKink ?? 0,
+		outsideData: 0,
 		spread: null,
 		reference: null,
 		gap: null,

@@ -13,6 +13,8 @@ export interface RunColumns {
 	start: number[];
 	outcome: string[];
 	atKink: boolean[];
+	/** absent in data stored before the column existed */
+	outsideData?: boolean[];
 	reason: string[];
 	iterations: number[];
 	evalsF: number[];
@@ -35,6 +37,7 @@ export function runRows(c: RunColumns, methods: Record<string, string>): RunView
 		start: c.starts.slice(c.start[i] * n, (c.start[i] + 1) * n),
 		outcome: c.outcome[i],
 		atKink: c.atKink[i],
+		outsideData: c.outsideData?.[i] === true,
 		reason: c.reason[i],
 		iterations: c.iterations[i],
 		evaluations: { f: c.evalsF[i], grad: c.evalsGrad[i] },

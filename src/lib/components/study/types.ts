@@ -12,6 +12,8 @@ export interface RunView {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };

@@ -17,6 +17,7 @@
  * last knot belongs to the last piece. So f′ and f″ at either end knot are the
  * limits from inside the data, never from the extrapolation.
  */
+import { polynomialLimit } from '../math';
 import { FitError } from './FitError';
 import {
 	FIT_FILE_FORMAT,
@@ -228,16 +229,33 @@ export class PiecewisePolynomial implements CurveFit {
 				throw outsideError(x, this.domain);
 			case 'hold':
 				return { f: below ? this.f0 : this.fN, df: 0, d2f: 0, outside: true };
-			case 'linear':
-				return below
-					? { f: this.f0 + this.d0 * (x - this.domain[0]), df: this.d0, d2f: 0, outside: true }
-					: { f: this.fN + this.dN * (x - this.domain[1]), df: this.dN, d2f: 0, outside: true };
+			case 'linear': {
+				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
+				const [fe, de, xe] = below ? [this.f0, this.d0, this.domain[0]] : [this.fN, this.dN, this.domain[1]];
+				return { f: de === 0 ? fe : fe + de * (x - xe), df: de, d2f: 0, outside: true };
+			}
 			default: {
+				if (!Number.isFinite(x)) return this.edgeAtInfinity(below);
 				const j = this.evaluatePiece(below ? 0 : this.pieces - 1, x);
 				j.outside = true;
 				return j;
 			}
 		}
+	}
+
+	/**
+	 * `extend` at x = ±∞: the limits of the edge piece and its derivatives,
+	 * led by the highest non-zero coefficient (a constant stays a constant,
+	 * where Horner's rule would form 0·∞ = NaN).
+	 */
+	private edgeAtInfinity(below: boolean): Jet {
+		const i = below ? 0 : this.pieces - 1;
+		const d = this.degree;
+		const c = Array.from(this.coefficients.subarray((d + 1) * i, (d + 1) * (i + 1)));
+		const sign = below ? -1 : 1;
+		const d1 = c.slice(1).map((v, k) => (k + 1) * v);
+		const d2 = d1.slice(1).map((v, k) => (k + 1) * v);
+		return { f: polynomialLimit(c, sign), df: polynomialLimit(d1, sign), d2f: polynomialLimit(d2, sign), outside: true };
 	}
 
 	evaluateMany(xs: ArrayLike<number>, out?: ManyOut): ManyResult {

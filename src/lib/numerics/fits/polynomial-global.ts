@@ -3,7 +3,15 @@
  * J.-P. Berrut, L. N. Trefethen, 2004, "Barycentric Lagrange Interpolation",
  * SIAM Review 46(3):501–517. With weights w_j = 1/Π_{k≠j}(x_j − x_k),
  *     p(x) = Σ_j [w_j/(x − x_j)]·y_j / Σ_j w_j/(x − x_j),
- * which is O(n) per point and numerically stable for interpolation.
+ * which is O(n) per point. Its stability depends on the nodes (N. J. Higham,
+ * 2004, "The numerical stability of barycentric Lagrange interpolation", IMA
+ * J. Numer. Anal. 24:547–556): this "second" form is forward stable when the
+ * nodes' Lebesgue constant is small (Chebyshev-like points), and loses
+ * accuracy in proportion to it otherwise. Table data are usually equispaced
+ * or clustered, where the Lebesgue constant grows exponentially with n: the
+ * rounding error then grows as fast as the ringing does, which is one more
+ * reason this method is meant for a handful of points (a note says so beyond
+ * 20, and the app refuses it beyond 40).
  *
  * Derivatives. p′ and p″ are polynomials of degree < n, so the same formula
  * with the same weights reproduces them exactly from their values at the
@@ -17,8 +25,7 @@
  * no finite difference (p(x) − y_j)/(x − x_j) is ever formed, so derivatives
  * stay accurate arbitrarily close to a node.
  *
- * C∞, but it rings between points when there are many (Runge's phenomenon):
- * a note says so beyond 20 points.
+ * C∞, but it rings between points when there are many (Runge's phenomenon).
  */
 import { FitError } from './FitError';
 import {
@@ -119,7 +126,8 @@ export class BarycentricPolynomial implements CurveFit {
 			case 'hold':
 				return { f: e.f, df: 0, d2f: 0, outside: true };
 			case 'linear':
-				return { f: e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
+				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
+				return { f: e.df === 0 ? e.f : e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
 			default: {
 				const j = this.evaluatePiece(0, x);
 				j.outside = true;

@@ -13,6 +13,7 @@
  * leave-one-out residuals e_i/(1 − h_ii).
  */
 import { Matrix, QrDecomposition } from 'ml-matrix';
+import { polynomialLimit } from '../math';
 import { FitError } from './FitError';
 import {
 	FIT_FILE_FORMAT,
@@ -99,8 +100,17 @@ export class ScaledPolynomial implements CurveFit {
 			case 'hold':
 				return { f: e.f, df: 0, d2f: 0, outside: true };
 			case 'linear':
-				return { f: e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
+				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
+				return { f: e.df === 0 ? e.f : e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
 			default: {
+				if (!Number.isFinite(x)) {
+					// the limits at ±∞ (t → ±∞ with x, the scale being positive)
+					const a = Array.from(this.coefficients);
+					const sign = below ? -1 : 1;
+					const d1 = a.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+					const d2 = d1.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+					return { f: polynomialLimit(a, sign), df: polynomialLimit(d1, sign), d2f: polynomialLimit(d2, sign), outside: true };
+				}
 				const j = this.evaluatePiece(0, x);
 				j.outside = true;
 				return j;
@@ -185,6 +195,18 @@ export function polynomialLeastSquares(x: ArrayLike<number>, y: ArrayLike<number
 		);
 	}
 	const xs = d.x;
+	// Solve for y − m, m the middle of y's range, and add m to the constant term
+	// afterwards (exact in exact arithmetic, the constant column is in the
+	// model): a large offset in y (absolute pressures, energies) would otherwise
+	// enter every Householder reflection and cost the slope coefficients the
+	// offset's rounding; y − m is exact for values near m (Sterbenz's lemma).
+	let yMin = Infinity;
+	let yMax = -Infinity;
+	for (let i = 0; i < n; i++) {
+		if (d.y[i] < yMin) yMin = d.y[i];
+		if (d.y[i] > yMax) yMax = d.y[i];
+	}
+	const yMid = 0.5 * yMin + 0.5 * yMax;
 	const center = 0.5 * (xs[0] + xs[n - 1]);
 	const scale = 0.5 * (xs[n - 1] - xs[0]);
 	const X = new Matrix(n, deg + 1);
@@ -197,13 +219,14 @@ export function polynomialLeastSquares(x: ArrayLike<number>, y: ArrayLike<number
 			X.set(i, k, p);
 			p *= t;
 		}
-		b.set(i, 0, r * d.y[i]);
+		b.set(i, 0, r * (d.y[i] - yMid));
 	}
 	const qr = new QrDecomposition(X);
 	if (!qr.isFullRank()) throw new FitError('singular', `polynomial-least-squares: the degree-${deg} design matrix is rank deficient`);
 	const beta = qr.solve(b);
 	const coefficients = new Float64Array(deg + 1);
 	for (let k = 0; k <= deg; k++) coefficients[k] = beta.get(k, 0);
+	coefficients[0] += yMid;
 	// Leverage: squared row norms of the thin Q.
 	const Q = qr.orthogonalMatrix;
 	const leverage = new Float64Array(n);

@@ -62,30 +62,43 @@ export function prepareData(
 	if (wIn == null && nIn >= rules.minPoints) {
 		let ok = true;
 		let prev = -Infinity;
+		// typed arrays hold numbers only; a plain array may hold null, booleans or numeric
+		// strings, for which v − v is 0 too (null → 0, "3" → 3): check each element's type
+		const typed = ArrayBuffer.isView(xIn) && ArrayBuffer.isView(yIn);
 		for (let i = 0; i < nIn; i++) {
 			const xi = xIn[i];
 			const yi = yIn[i];
-			// v − v is 0 exactly for finite numbers (NaN for NaN, ±Infinity and non-numbers).
-			if (!(xi > prev) || xi - xi !== 0 || yi - yi !== 0) {
+			// v − v is 0 exactly for finite numbers (NaN for NaN, ±Infinity and most non-numbers).
+			if (!(xi > prev) || xi - xi !== 0 || yi - yi !== 0 || (!typed && (typeof xi !== 'number' || typeof yi !== 'number'))) {
 				ok = false;
 				break;
 			}
 			prev = xi;
 		}
-		if (ok && typeof xIn[0] === 'number' && typeof yIn[0] === 'number') {
+		if (ok) {
 			const x = xIn instanceof Float64Array ? xIn.slice() : Float64Array.from(xIn);
 			const y = yIn instanceof Float64Array ? yIn : Float64Array.from(yIn);
 			return { x, y, w: null, rowsOf: (k: number) => [k + 1], notes };
 		}
 	}
 
-	// Non-finite values, listed by row.
+	// Values that are not numbers at all (null, booleans, strings — never read as 0 or
+	// converted), then non-finite numbers, listed by row.
+	const notNumbers: number[] = [];
+	for (let i = 0; i < nIn; i++) if (typeof xIn[i] !== 'number' || typeof yIn[i] !== 'number') notNumbers.push(i + 1);
+	if (notNumbers.length > 0) {
+		throw new FitError(
+			'non-finite',
+			`${rules.label}: a value that is not a number (null, a boolean or text) in row${notNumbers.length > 1 ? 's' : ''} ${describeRows(notNumbers)}`,
+			notNumbers
+		);
+	}
 	const bad: number[] = [];
 	for (let i = 0; i < nIn; i++) {
 		const xi = xIn[i];
 		const yi = yIn[i];
 		const wi = wIn ? wIn[i] : 1;
-		if (typeof xi !== 'number' || typeof yi !== 'number' || !Number.isFinite(xi) || !Number.isFinite(yi)) bad.push(i + 1);
+		if (!Number.isFinite(xi) || !Number.isFinite(yi)) bad.push(i + 1);
 		else if (!(typeof wi === 'number' && Number.isFinite(wi) && wi > 0)) {
 			throw new FitError('bad-option', `${rules.label}: weight in row ${i + 1} must be a positive finite number`, [i + 1]);
 		}

@@ -51,6 +51,7 @@ interface Bands {
 export interface SmoothingSolution {
 	lambda: number;
 	g: Float64Array; // fitted values at the data
+	resid: Float64Array; // y − g, formed directly (not from the rounded g)
 	gamma: Float64Array; // f″ at all n knots (0 at the ends)
 	leverage: Float64Array; // diag A
 	oneMinusLeverage: Float64Array; // 1 − A_ii, formed without cancellation
@@ -103,6 +104,7 @@ interface Workspace {
 	S2: Float64Array;
 	gamma: Float64Array;
 	g: Float64Array;
+	resid: Float64Array;
 	leverage: Float64Array;
 	oneMinus: Float64Array;
 }
@@ -110,7 +112,7 @@ interface Workspace {
 function workspace(n: number): Workspace {
 	const N = n - 2;
 	const a = (k: number) => new Float64Array(k);
-	return { D: a(N), L1: a(N), L2: a(N), z: a(N), S0: a(N), S1: a(N), S2: a(N), gamma: a(n), g: a(n), leverage: a(n), oneMinus: a(n) };
+	return { D: a(N), L1: a(N), L2: a(N), z: a(N), S0: a(N), S1: a(N), S2: a(N), gamma: a(n), g: a(n), resid: a(n), leverage: a(n), oneMinus: a(n) };
 }
 
 function solveAt(bd: Bands, lambda: number, full: boolean, ws: Workspace = workspace(bd.n)): SmoothingSolution {
@@ -151,6 +153,7 @@ function solveAt(bd: Bands, lambda: number, full: boolean, ws: Workspace = works
 	for (let J = 0; J < N; J++) gamma[J + 1] = z[J];
 	// g = y − λW⁻¹Qγ, with (Qγ)_i = Δγ_i/h_i − Δγ_{i−1}/h_{i−1} (missing terms dropped at the ends).
 	const g = ws.g;
+	const resid = ws.resid;
 	let rss = 0;
 	for (let i = 0; i < n; i++) {
 		let qg = 0;
@@ -158,6 +161,7 @@ function solveAt(bd: Bands, lambda: number, full: boolean, ws: Workspace = works
 		if (i > 0) qg -= (gamma[i] - gamma[i - 1]) / h[i - 1];
 		const r = (lambda * qg) / w[i];
 		g[i] = y[i] - r;
+		resid[i] = r;
 		rss += w[i] * r * r;
 	}
 	const leverage = ws.leverage;
@@ -212,7 +216,7 @@ function solveAt(bd: Bands, lambda: number, full: boolean, ws: Workspace = works
 		const denom = n - tr;
 		gcv = (n * rss) / (denom * denom);
 	}
-	return { lambda, g, gamma, leverage, oneMinusLeverage: oneMinus, edf, rss, gcv };
+	return { lambda, g, resid, gamma, leverage, oneMinusLeverage: oneMinus, edf, rss, gcv };
 }
 
 /** GCV minimiser over λ > 0: log-spaced scan, then golden-section on the best bracket. */
@@ -313,14 +317,17 @@ export function smoothingSpline(x: ArrayLike<number>, y: ArrayLike<number>, opti
 	const xs = d.x;
 	const n = xs.length;
 	const sol = solveSmoothingSpline(xs, d.y, d.w, fixed);
-	const { g, gamma } = sol;
+	const { g, gamma, resid } = sol;
 	// Natural cubic from values g and second derivatives γ: on [x_i, x_{i+1}],
 	// c0 = g_i, c1 = Δg/h − h(2γ_i + γ_{i+1})/6, c2 = γ_i/2, c3 = Δγ/(6h).
+	// Δg is taken as Δy − Δr (r = y − g, the residuals): with a large offset in y
+	// the rounded g_i have lost the low digits that Δg needs, while Δy (of the
+	// stored values) and Δr are exact or small.
 	const c = new Float64Array(4 * (n - 1));
 	for (let i = 0, o = 0; i < n - 1; i++, o += 4) {
 		const h = xs[i + 1] - xs[i];
 		c[o] = g[i];
-		c[o + 1] = (g[i + 1] - g[i]) / h - (h * (2 * gamma[i] + gamma[i + 1])) / 6;
+		c[o + 1] = (d.y[i + 1] - d.y[i] - (resid[i + 1] - resid[i])) / h - (h * (2 * gamma[i] + gamma[i + 1])) / 6;
 		c[o + 2] = gamma[i] / 2;
 		c[o + 3] = (gamma[i + 1] - gamma[i]) / (6 * h);
 	}

@@ -1,8 +1,17 @@
 /**
- * The line-search descent loop shared by BFGS and steepest descent
- * (Nocedal & Wright, Numerical Optimization, 2nd ed. 2006: Algorithm 6.1 for
- * BFGS; §3.1 for steepest descent), with the strong-Wolfe search of
+ * The line-search descent loop shared by BFGS, nonlinear conjugate gradient
+ * and steepest descent (Nocedal & Wright, Numerical Optimization, 2nd ed.
+ * 2006: Algorithm 6.1 for BFGS; §5.2, eq. 5.44–5.45 for Polak–Ribière with
+ * β⁺ = max(β, 0); §3.1 for steepest descent), with the strong-Wolfe search of
  * Algorithms 3.5/3.6.
+ *
+ * Stopping rules (the same for the three; see README "How a run's outcome is
+ * decided"): `converged` when ‖projected ∇f‖∞ ≤ gradTol·max(1, ‖∇f(start)‖∞)
+ * and the second-order check passes; `stalled` when a step is below stepTol
+ * relative to x, or when over three successive iterations f changes by no
+ * more than fTol·max(1, |f(start) − f|) plus its rounding level while the
+ * projected gradient does not halve. Every test reads gradients or
+ * differences of f, so adding a constant to f changes none of them.
  *
  * Bounds by projection: the start is projected into the box; an input on a
  * bound whose gradient points out of the box is held (its direction component
@@ -21,7 +30,9 @@ import { conclude } from './secondOrder';
 import type { RunResult } from './types';
 import { wolfeLineSearch } from './wolfeLineSearch';
 
-export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-descent'): RunResult {
+export type DescentMethod = 'bfgs' | 'conjugate-gradient' | 'steepest-descent';
+
+export function descend(run: Run, start: number[], method: DescentMethod): RunResult {
 	return run.guard(() => {
 		const n = run.n;
 		const { stepTol, fTol } = run.settings;
@@ -31,7 +42,15 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 		run.record(p);
 		// inverse Hessian approximation; null = identity, scaled by yᵀs/yᵀy at the next update (N&W eq. 6.20)
 		let H: number[][] | null = null;
+		// conjugate gradient: the previous direction, gradient and free set (restart when the free set changes)
+		let dPrev: number[] | null = null;
+		let gPrev: number[] | null = null;
+		let freePrev: boolean[] | null = null;
+		let sinceRestart = 0;
+		// previous step length and directional derivative, for the initial trial step (N&W eq. 3.59)
+		let alphaPrev = NaN;
 		let fPrev = NaN;
+		let dphiPrev = NaN;
 		let flat = 0;
 		let retried = false;
 		// a no-progress verdict waits until the new point has had its first-order test
@@ -54,8 +73,28 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 					d[i] = v;
 				} else d[i] = -g[i];
 			}
+			const conjugate = method === 'conjugate-gradient' && dPrev && gPrev && freePrev && sinceRestart < n && free.every((v, i) => v === freePrev![i]);
+			if (!conjugate) sinceRestart = 0;
+			if (conjugate && dPrev && gPrev) {
+				// Polak–Ribière⁺ on the free inputs: β = max(0, gᵀ(g − g₋)/‖g₋‖²) (N&W eq. 5.44–5.45)
+				let num = 0;
+				let den = 0;
+				for (let i = 0; i < n; i++) {
+					if (!free[i]) continue;
+					num += g[i] * (g[i] - gPrev[i]);
+					den += gPrev[i] * gPrev[i];
+				}
+				const beta = den > 0 ? Math.max(0, num / den) : 0;
+				if (Number.isFinite(beta) && beta > 0) for (let i = 0; i < n; i++) if (free[i]) d[i] += beta * dPrev[i];
+			}
 			let dphi0 = 0;
 			for (let i = 0; i < n; i++) dphi0 += g[i] * d[i];
+			if (!(dphi0 < 0) && method === 'conjugate-gradient' && dPrev) {
+				// not a descent direction (β too large for an inexact search): restart along −∇f
+				dPrev = null;
+				sinceRestart = 0;
+				continue;
+			}
 			if (!(dphi0 < 0)) {
 				if (H) {
 					// lost positive definiteness to rounding: restart from the gradient
@@ -70,13 +109,24 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 				if (d[i] < 0 && run.lo[i] > -Infinity) alphaMax = Math.min(alphaMax, (run.lo[i] - x[i]) / d[i]);
 				else if (d[i] > 0 && run.hi[i] < Infinity) alphaMax = Math.min(alphaMax, (run.hi[i] - x[i]) / d[i]);
 			}
-			// initial trial step: 1 for quasi-Newton once H has a scale; otherwise N&W eq. 3.60
+			// initial trial step: 1 for quasi-Newton once H has a scale; otherwise the
+			// interpolation of N&W eq. 3.60 while the last decrease of f stands well above
+			// f's rounding level, else (an offset in f rounds the decrease away) the
+			// first-order change kept, α₀ = α₋·φ′₋(0)/φ′(0) (N&W eq. 3.59)
 			let alpha0: number;
 			if (method === 'bfgs' && H) alpha0 = 1;
-			else if (Number.isFinite(fPrev) && fPrev > p.f) alpha0 = (1.01 * 2 * (p.f - fPrev)) / dphi0;
+			else if (Number.isFinite(fPrev) && fPrev - p.f > 100 * run.fNoise(p.f)) alpha0 = (1.01 * 2 * (p.f - fPrev)) / dphi0;
+			else if (Number.isFinite(alphaPrev) && dphiPrev < 0) alpha0 = (alphaPrev * dphiPrev) / dphi0;
 			else alpha0 = Math.min(1, 1 / norm2(d));
 			if (!(alpha0 > 0) || !Number.isFinite(alpha0)) alpha0 = 1;
 			const ls = wolfeLineSearch(run, p, d, { alpha0, alphaMax, c2: method === 'bfgs' ? 0.9 : 0.1 });
+			if (!ls.point && method === 'conjugate-gradient' && dPrev) {
+				// the conjugate direction failed: restart along −∇f before giving up
+				dPrev = null;
+				sinceRestart = 0;
+				run.resets++;
+				continue;
+			}
 			if (!ls.point) {
 				if (ls.status === 'nonfinite') run.stop('diverged', `f is not finite at any trial step from ${fmt(x)}`);
 				if (method === 'bfgs' && H && !retried) {
@@ -113,14 +163,24 @@ export function descend(run: Run, start: number[], method: 'bfgs' | 'steepest-de
 					run.resets++;
 				}
 			}
+			if (method === 'conjugate-gradient') {
+				dPrev = d;
+				gPrev = g;
+				freePrev = free;
+				sinceRestart++;
+			}
+			alphaPrev = ls.alpha;
+			dphiPrev = dphi0;
 			run.record(q);
 			const stepInf = normInf(q.x.map((v, i) => v - x[i]));
-			fPrev = p.f;
 			const df = Math.abs(q.f - p.f);
+			fPrev = p.f;
 			p = q;
 			if (stepInf <= stepTol * scaleOf(p.x)) stall = `no progress: step ${stepInf.toExponential(2)} below the step tolerance`;
-			// relative test: near f* = 0 every decrease is still progress
-			flat = df <= fTol * Math.abs(p.f) ? flat + 1 : 0;
+			// f-change test on differences (an offset in f cancels), with f's rounding level
+			// allowed; an iteration that still halves the projected gradient is progress
+			const pgNew = run.projectedGradNorm(p.x, p.grad);
+			flat = df <= fTol * run.fChangeScale(p) + run.fNoise(p.f) && !(pgNew <= 0.5 * pg) ? flat + 1 : 0;
 			if (flat >= 3) stall = 'no progress: f unchanged over 3 iterations';
 		}
 	});

@@ -7,5 +7,5 @@ export { nelderMead } from './nelderMead';
 export { newton } from './newton';
 export { makeStarts, listStarts, gridStarts, latinHypercubeStarts, mulberry32, MAX_STARTS } from './starts';
 export type { StartSpec, Box } from './starts';
-export { DEFAULT_SETTINGS } from './run';
+export { DEFAULT_SETTINGS, MIN_GRAD_TOL, MIN_TOL, brokenRun } from './run';
 export type * from './types';

@@ -21,7 +21,8 @@
  * - Stop test (ours, checked on fmin's per-iteration `history` hook; fmin's own
  *   test is disabled by a 1e-300 tolerance): simplex diameter
  *   ≤ stepTol·(1 + ‖x‖∞) (default 1e-8; 1e-13 for `solve`) and spread of f
- *   ≤ fTol·max(1, |f|); then the derivative-free second-order check. A `solve`
+ *   ≤ fTol·max(1, |f(start) − f|) plus f's rounding level (differences of f
+ *   only, so adding a constant to f changes nothing); then the derivative-free second-order check. A `solve`
  *   run also stops as soon as the best vertex meets the residual tolerance. Budgets are enforced by the run
  *   throwing its sentinel from inside the objective or the hook.
  * - Stagnation: when the end-point check finds a descent direction (Nelder–Mead
@@ -108,8 +109,14 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 						fmin = Math.min(fmin, state.simplex[k].fx);
 					}
 					const spread = fmax - fmin;
-					if (diam <= stepTol * scaleOf(xb) && spread <= fTol * Math.max(1, Math.abs(best.f)))
+					// spread of f against the change of f over the run (differences: an offset cancels) plus f's rounding level
+					const fTolNow = fTol * run.fChangeScale(best) + run.fNoise(Math.max(Math.abs(fmax), Math.abs(fmin)));
+					if (diam <= stepTol * scaleOf(xb) && spread <= fTolNow)
 						throw new Converged(`simplex diameter ${diam.toExponential(2)} and f spread ${spread.toExponential(2)} within tolerance`);
+					// on a bound f may keep its slope, so the spread over a collapsed simplex is |∇f|·diameter:
+					// let the end-point check (which probes from the bound into the box) decide
+					if (diam <= stepTol * scaleOf(xb) && run.activeBounds(xb).length > 0)
+						throw new Converged(`simplex diameter ${diam.toExponential(2)} within tolerance on the bound${run.activeBounds(xb).length > 1 ? 's' : ''} ${run.activeBounds(xb).join(', ')}`);
 					run.beginIteration();
 				}
 			};
@@ -132,15 +139,15 @@ export function nelderMead(problem: Problem, options: OptimizeOptions, start: nu
 					run.notes.push(`simplex stagnated at ${fmt(best.x)} (${verdict.detail}); restarted with a fresh simplex`);
 					b = best.x.slice();
 					h = b.map((v) => Math.max(0.05 * Math.abs(v), 0.00025));
-					run.record(best);
 					run.beginIteration();
+					run.record(best);
 					continue;
 				}
 				return conclude(run, best, err.reason, { derivativeFree: true });
 			}
 			// fmin returned: it wanted to shrink. Count the shrink as an iteration and restart smaller.
-			run.record(best);
 			run.beginIteration();
+			run.record(best);
 			restarts++;
 			const xb = best.x;
 			const floor = 0.01 * stepTol * scaleOf(best.x);

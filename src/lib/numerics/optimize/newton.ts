@@ -138,13 +138,13 @@ function stationary(run: Run, start: number[]): RunResult {
 function solveScalar(run: Run, start: number[]): RunResult {
 	return run.guard(() => {
 		const t = run.target;
-		const tolR = run.settings.residualTol * Math.max(1, Math.abs(t));
 		const lo = run.lo[0];
 		const hi = run.hi[0];
 		const widthTol = (v: number) => Math.max(run.settings.stepTol, 4 * EPS) * (1 + Math.abs(v));
 		let p = run.evaluate(run.prepareStart(start));
 		if (!Number.isFinite(p.userF)) run.stop('diverged', `f is not finite at the start ${fmt(p.x)}`, p);
 		let r = p.userF - t;
+		const tolR = run.residualTolerance(Math.abs(r));
 		run.record(p, { merit: Math.abs(r) });
 		// bracket [a, b] with r(a)·r(b) < 0, when known
 		let a = NaN;
@@ -239,7 +239,6 @@ function solveSystem(run: Run, start: number[]): RunResult {
 		const eqIdx = cs.map((c, i) => (c.kind === 'eq' ? i : -1)).filter((i) => i >= 0);
 		const ineqIdx = cs.map((c, i) => (c.kind === 'ineq' ? i : -1)).filter((i) => i >= 0);
 		const t = run.target;
-		const tolR = run.settings.residualTol * Math.max(1, Math.abs(t));
 		const residual = (q: Point) => {
 			const C = cs.length ? q.constraints() : { values: [], grads: [] };
 			const r = [q.userF - t, ...eqIdx.map((i) => C.values[i])];
@@ -250,6 +249,7 @@ function solveSystem(run: Run, start: number[]): RunResult {
 
 		let p = run.evaluate(run.prepareStart(start));
 		let { r, C } = residual(p);
+		const tolR = run.residualTolerance(normInf(r));
 		if (!allFinite(r)) run.stop('diverged', `f or a constraint is not finite at the start ${fmt(p.x)}`, p);
 		run.record(p, { merit: normInf(r), violation: C.values.length ? run.violation(C.values) : 0 });
 		for (;;) {

@@ -7,7 +7,7 @@
  * RunResult. Because the sentinel is thrown from inside `evaluate`, it also
  * stops third-party loops (fmin) that call the objective.
  */
-import { allFinite, norm2, normInf } from './linalg';
+import { allFinite, EPS, norm2, normInf } from './linalg';
 import type {
 	Evaluation,
 	Evaluations,
@@ -49,6 +49,11 @@ export const DEFAULT_SETTINGS: Omit<Settings, 'clock' | 'onIteration'> = {
 	maxMilliseconds: 10000,
 	secondOrderCheck: true
 };
+
+/** smallest gradTol honoured: about ten units of rounding (relative to the gradient scale) */
+export const MIN_GRAD_TOL = 1e-15;
+/** smallest step, f, feasibility and residual tolerance honoured (relative ones lose meaning below ε) */
+export const MIN_TOL = 1e-16;
 
 function defaultClock(): () => number {
 	const perf = (globalThis as { performance?: { now(): number } }).performance;
@@ -192,8 +197,14 @@ export class Run {
 	readonly path: Path = { x: [], f: [], grad: [], step: [], violation: [], merit: [], active: [] };
 	/** last accepted iterate */
 	current: Point | null = null;
-	/** the minimized function's value at the start (set by the first record) */
-	private f0 = NaN;
+	/** the first recorded point (the start) */
+	private startPoint: Point | null = null;
+	/** the error thrown by the objective inside its domain (propagated by guard) */
+	private objectiveFault: unknown = null;
+	/** gradScale(), once computed */
+	private g0 = NaN;
+	/** gradTol clamped to what double precision can reach (see the constructor) */
+	readonly gradTol: number;
 	private readonly t0: number;
 	private startX: number[] = [];
 
@@ -249,6 +260,19 @@ export class Run {
 			secondOrderCheck: pick('secondOrderCheck', DEFAULT_SETTINGS.secondOrderCheck)
 		};
 		this.t0 = this.settings.clock();
+		// A relative gradient test below a few ulps cannot be met by any
+		// computed gradient: clamp it (and say so) rather than let the run
+		// chase rounding; the other tolerances only end runs as `stalled`.
+		const g = this.settings.gradTol;
+		this.gradTol = Number.isFinite(g) && g >= MIN_GRAD_TOL ? g : MIN_GRAD_TOL;
+		if (this.gradTol !== g) this.notes.push(`gradTol ${g} is below what double precision can reach; ${MIN_GRAD_TOL} used`);
+		for (const k of ['stepTol', 'fTol', 'feasTol', 'residualTol'] as const) {
+			const v = this.settings[k];
+			if (!(v >= MIN_TOL)) {
+				this.settings[k] = MIN_TOL;
+				this.notes.push(`${k} ${v} is below what double precision can reach; ${MIN_TOL} used`);
+			}
+		}
 	}
 
 	get constraintCount(): number {
@@ -322,7 +346,13 @@ export class Run {
 			raw = this.problem.objective.evaluate(x.slice());
 		} catch (err) {
 			if (err instanceof Stop) throw err;
-			if (this.problem.objective.domain && !outside) throw err; // a fault inside the domain is a bug, not a refusal
+			if (this.problem.objective.domain && !outside) {
+				// a fault inside the domain is a bug of the objective, not a refusal: it propagates
+				this.objectiveFault = err;
+				throw err;
+			}
+			// a refusal is an evaluation outside the data too (the one that ends the run)
+			this.outsideEvaluations++;
 			this.stop('left-domain', `objective refused x = ${fmt(x)}: ${err instanceof Error ? err.message : String(err)}`);
 		}
 		if (!raw || typeof raw.f !== 'number') throw new TypeError('objective.evaluate must return { f, grad }');
@@ -372,20 +402,63 @@ export class Run {
 	}
 
 	/**
-	 * The scale of f for relative tolerances: max(1, min(|f(start)|, |f|)).
-	 * Relative, so that the test does not depend on f's units; the smaller of
-	 * the two, so that a run drifting to f → −∞ is not declared converged by a
-	 * tolerance growing with |f|.
+	 * The gradient scale of the first-order test: max(1, ‖∇F(start)‖∞), F the
+	 * minimized function (the user's ∇f for `solve` run as least squares).
+	 * A gradient, unlike f, does not change when a constant is added to f, so
+	 * the test ‖projected ∇F‖∞ ≤ gradTol·gradScale is invariant to an offset in
+	 * f, and relative to the start it follows a scaling of f (the floor 1 keeps
+	 * a start that is already nearly stationary from asking for more than
+	 * rounding allows). Nocedal & Wright (2006, §3.1 and the discussion of
+	 * stopping tests) base the test on the gradient, not on f; see
+	 * docs/references.md.
 	 */
-	fScale(p: Point): number {
-		const f0 = Number.isNaN(this.f0) ? Math.abs(p.f) : Math.abs(this.f0);
-		const v = Math.min(Number.isFinite(f0) ? f0 : Infinity, Math.abs(p.f));
-		return Number.isFinite(v) ? Math.max(1, v) : 1;
+	gradScale(): number {
+		if (Number.isNaN(this.g0)) {
+			const s = this.startPoint;
+			if (!s) return 1;
+			const g = this.mode === 'least-squares' ? s.peekUserGrad() : s.grad;
+			const v = normInf(g);
+			this.g0 = Number.isFinite(v) ? Math.max(1, v) : 1;
+		}
+		return this.g0;
 	}
 
-	/** the first-order tolerance at p: gradTol·fScale(p) */
-	gradTolAt(p: Point): number {
-		return this.settings.gradTol * this.fScale(p);
+	/** the first-order tolerance: gradTol·gradScale() (the same at every point of a run) */
+	gradTolAt(_p?: Point): number {
+		return this.gradTol * this.gradScale();
+	}
+
+	/**
+	 * The rounding level of f near p: a few units in the last place of |f|.
+	 * Differences of f below it are not information (what f-change tests,
+	 * line searches and probes must allow for); it grows with an offset in f
+	 * because the stored values lose their low digits, not because a
+	 * tolerance does.
+	 */
+	fNoise(f: number): number {
+		if (!Number.isFinite(f)) return 0;
+		if (this.mode !== 'least-squares') return 8 * EPS * Math.abs(f);
+		// F = ½r², r = f − target: the user's f carries 8ε(|target| + |r|), which F carries times |r|
+		const r = Math.sqrt(2 * Math.abs(f));
+		const d = 8 * EPS * (Math.abs(this.target) + r);
+		return r * d + d * d;
+	}
+
+	/**
+	 * How much lower f must be at a probe near p to count as a descent the
+	 * end-point checks believe: 1e-12 of the change of F over the run (at
+	 * least 1e-12), plus the rounding level of L0 — differences only, so an
+	 * offset in f changes nothing but the rounding term.
+	 */
+	fDropTol(p: Point, L0: number): number {
+		return 1e-12 * this.fChangeScale(p) + this.fNoise(L0);
+	}
+
+	/** max(1, |F(start) − F(p)|): the shift-invariant scale of f-change tests */
+	fChangeScale(p: Point): number {
+		const s = this.startPoint;
+		const change = s && Number.isFinite(s.f) && Number.isFinite(p.f) ? Math.abs(s.f - p.f) : 0;
+		return Math.max(1, change);
 	}
 
 	/**
@@ -399,13 +472,25 @@ export class Run {
 		if (this.mode === 'least-squares') {
 			if (this.residualMet(p)) return true;
 			const r = Math.abs(p.userF - this.target);
-			return measure / r <= this.settings.gradTol * Math.max(1, Math.abs(this.target));
+			return measure / r <= this.gradTolAt(p);
 		}
 		return measure <= this.gradTolAt(p);
 	}
 
+	/**
+	 * The residual a `solve` run must reach: residualTol·max(1, |r(start)|)
+	 * plus the rounding level of the target. Relative to the starting residual,
+	 * not to |target|, so that adding a constant to f and to the target changes
+	 * nothing but that rounding term (with which a target of 1e9 can be met to
+	 * the digits f really has).
+	 */
+	residualTolerance(r0: number): number {
+		return this.settings.residualTol * Math.max(1, Number.isFinite(r0) ? r0 : 1) + 8 * EPS * Math.abs(this.target);
+	}
+
 	residualMet(p: Point): boolean {
-		return Math.abs(p.userF - this.target) <= this.settings.residualTol * Math.max(1, Math.abs(this.target));
+		const s = this.startPoint ?? p;
+		return Math.abs(p.userF - this.target) <= this.residualTolerance(Math.abs(s.userF - this.target));
 	}
 
 	/**
@@ -443,7 +528,7 @@ export class Run {
 			for (let i = 0; i < this.n; i++) d[i] = p.x[i] - prev[i];
 			step = norm2(d);
 		}
-		if (!prev) this.f0 = p.f;
+		if (!prev) this.startPoint = p;
 		const rec: IterationRecord = {
 			iteration: this.path.x.length,
 			x: p.x.slice(),
@@ -471,13 +556,21 @@ export class Run {
 		throw new Stop(outcome, reason, point);
 	}
 
-	/** run the optimizer body; a Stop becomes the result, anything else propagates */
+	/**
+	 * Run the optimizer body; a Stop becomes the result. A fault of the
+	 * objective inside its domain, and a bad start (before any evaluation),
+	 * propagate; any other error raised on the way (arithmetic that went
+	 * non-finite inside the optimizer or a library it drives) ends the run as
+	 * `diverged` with the error in the reason, so one run can never fail a study.
+	 */
 	guard(body: () => RunResult): RunResult {
 		try {
 			return body();
 		} catch (err) {
-			if (!(err instanceof Stop)) throw err;
-			return this.finish(err.point ?? this.current, err.outcome, err.reason);
+			if (err instanceof Stop) return this.finish(err.point ?? this.current, err.outcome, err.reason);
+			if (err === this.objectiveFault || (this.counts.f === 0 && err instanceof RangeError)) throw err;
+			const msg = err instanceof Error ? err.message : String(err);
+			return this.finish(this.current, 'diverged', `the computation broke down (${msg}); the last accepted point is reported`);
 		}
 	}
 
@@ -524,19 +617,25 @@ export class Run {
 		}
 		const kinkAt = this.problem.objective.kinkAt;
 		let atKink = false;
-		if (outcome === 'stalled' && kinkAt && allFinite(x)) {
+		// every run that ends on a knot where f′ jumps says so, whatever its optimizer and outcome
+		// (a derivative-free method can "converge" at the corner of a linear fit)
+		if (kinkAt && allFinite(x)) {
 			try {
 				atKink = !!kinkAt(x.slice());
 			} catch {
 				atKink = false;
 			}
 		}
+		// the end point lies outside the data: the fit there is its extrapolation rule, not the data
+		const outsideData = allFinite(x) && this.outsideDomain(x);
+		if (outsideData && outcome === 'converged') reason = `${reason} — outside the data, on the fit's extrapolation`;
 		return {
 			optimizer: this.optimizer,
 			kind: this.kind,
 			outcome,
 			reason,
 			atKink,
+			outsideData,
 			x,
 			f,
 			gradNorm: norm2(g),
@@ -564,4 +663,36 @@ export function fmt(x: ArrayLike<number>): string {
 /** max-norm of x for relative step tests */
 export function scaleOf(x: number[]): number {
 	return 1 + normInf(x);
+}
+
+/**
+ * The record of a run whose optimizer threw (a fault of the objective, which
+ * `optimize` lets propagate): `diverged` at the start, with the error as the
+ * reason — what a study stores instead of failing.
+ */
+export function brokenRun(problem: Problem, optimizer: OptimizerName, start: number[], err: unknown): RunResult {
+	const n = problem.objective.n;
+	const x = Array.isArray(start) && start.length === n ? start.slice() : new Array<number>(n).fill(NaN);
+	const msg = err instanceof Error ? err.message : String(err);
+	return {
+		optimizer,
+		kind: problem.kind,
+		outcome: 'diverged',
+		reason: `the objective failed at or after the start (${msg})`,
+		atKink: false,
+		outsideData: false,
+		x,
+		f: NaN,
+		gradNorm: NaN,
+		iterations: 0,
+		evaluations: { f: 0, grad: 0, hess: 0, constraints: 0 },
+		resets: 0,
+		outsideEvaluations: 0,
+		multipliers: null,
+		kkt: null,
+		start: x.slice(),
+		ms: 0,
+		notes: [],
+		path: { x: [x.slice()], f: [NaN], grad: [new Array<number>(n).fill(NaN)], step: [0], violation: [0], merit: [NaN], active: [[]] }
+	};
 }

@@ -45,10 +45,14 @@ interface Verdict {
 
 function activeBoundNormals(run: Run, p: Point, g: number[] | null): number[][] {
 	const out: number[][] = [];
-	const tolG = run.gradTolAt(p);
+	const tolG = g === null ? 0 : run.gradTolAt(p);
 	for (let i = 0; i < run.n; i++) {
-		const atLo = p.x[i] <= run.lo[i];
-		const atHi = p.x[i] >= run.hi[i];
+		// on a bound, or within the first-order tolerance of one that ∇f pushes against
+		// (the projected gradient min(|g|, room) then measured the room, not g)
+		const roomLo = p.x[i] - run.lo[i];
+		const roomHi = run.hi[i] - p.x[i];
+		const atLo = roomLo <= 0 || (g !== null && g[i] > roomLo && roomLo <= tolG);
+		const atHi = roomHi <= 0 || (g !== null && -g[i] > roomHi && roomHi <= tolG);
 		if (!atLo && !atHi) continue;
 		// strongly active: the gradient pushes out of the box (derivative-free: any bound we sit on)
 		const outward = g === null ? true : atLo ? g[i] > tolG : g[i] < -tolG;
@@ -83,7 +87,7 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 	const L0 = valueL(p);
 	if (ctx.derivativeFree) {
 		// without a gradient a bound we sit on may not be active at all: step inward and look
-		const drop = 1e-12 * Math.max(1, Math.abs(L0));
+		const drop = run.fDropTol(p, L0);
 		for (let i = 0; i < n; i++) {
 			const dir = p.x[i] <= run.lo[i] ? 1 : p.x[i] >= run.hi[i] ? -1 : 0;
 			if (!dir || run.lo[i] === run.hi[i]) continue;
@@ -131,12 +135,12 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			const q = tryEval(shifted(run, p.x, v, t));
 			return q ? valueL(q) : NaN;
 		};
-		const drop = 1e-12 * Math.max(1, Math.abs(L0));
+		const drop = run.fDropTol(p, L0);
 		// Derivative-free first-order probes: a simplex can collapse on a slope, or
 		// stagnate on a ridge of a non-smooth function where only oblique directions
 		// descend (K. I. M. McKinnon, "Convergence of the Nelder–Mead simplex method
 		// to a nonstationary point", SIAM J. Optim. 9(1):148–158, 1998). Probe ±d at
-		// two scales for d in: the directions of Z, their diagonals (k ≤ 4), and 2k
+		// two scales for d in: the directions of Z, their diagonals (k ≤ 4), and 8k
 		// seeded pseudo-random combinations.
 		const dirs: number[][] = Z.map((z) => z.slice());
 		const combo = (w: number[]) => {
@@ -155,7 +159,7 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 			seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0;
 			return seed / 4294967296 - 0.5;
 		};
-		if (k >= 2) for (let r = 0; r < 2 * k; r++) {
+		if (k >= 2) for (let r = 0; r < 8 * k; r++) {
 			const v = combo(Array.from({ length: k }, rand));
 			if (v) dirs.push(v);
 		}
@@ -211,13 +215,13 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 	if (lmin > tol) return { ok: true, detail: `curvature ≥ ${lmin.toPrecision(3)}` };
 	// degenerate: probe every flat direction (eigenvectors with |λ| ≤ tol) at ±h
 	const h2 = 1e-3 * xs;
-	const gTol = run.gradTolAt(p);
+	const gTol = g0 ? run.gradTolAt(p) : 0;
 	for (let e = 0; e < k && Math.abs(values[e]) <= tol; e++) {
 		const v = new Array<number>(n).fill(0);
 		for (let a = 0; a < k; a++) for (let i = 0; i < n; i++) v[i] += vectors[e][a] * Z[a][i];
 		// a first-order point may keep a gradient up to the tolerance: allow its linear term, no more
 		const slope = g0 ? Math.min(Math.abs(dot(g0, v)), gTol) : 0;
-		const allowed = 1e-12 * Math.max(1, Math.abs(L0)) + 1.01 * h2 * slope;
+		const allowed = run.fDropTol(p, L0) + 1.01 * h2 * slope;
 		for (const t of [h2, -h2]) {
 			const q = tryEval(shifted(run, p.x, v, t));
 			if (q && valueL(q) < L0 - allowed)

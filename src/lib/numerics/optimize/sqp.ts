@@ -20,7 +20,8 @@
  *   tried (N&W Algorithm 18.3): d̂ = −Aᵀ(AAᵀ)⁻¹c(x + d) over the active constraints.
  * - Stop: the KKT conditions at x with the QP's multipliers — stationarity
  *   ‖∇F + Σλᵢ∇cᵢ − z_lo + z_hi‖∞ and complementarity max |λᵢcᵢ|, |z·(x − bound)|
- *   both ≤ gradTol·max(1, min(|F(start)|, |F|)), feasibility max viol ≤ feasTol — then the
+ *   both ≤ gradTol·max(1, ‖∇F(start)‖∞) (a gradient scale, so an offset in F
+ *   changes nothing), feasibility max viol ≤ feasTol — then the
  *   second-order check on the null space of the active constraints.
  *
  * Fallbacks (documented outcomes, never silent):
@@ -205,6 +206,14 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 				if (!allFinite(Cq.values)) return { q, phi: NaN };
 				return { q, phi: merit(q) };
 			};
+			const lagrangianSlope = (q: Point, lam: number[], dir: number[]) => {
+				const gq = q.grad;
+				const Cq = q.constraints();
+				let v = dot(gq, dir);
+				for (let i = 0; i < m; i++) if (lam[i]) v += lam[i] * dot(Cq.grads[i], dir);
+				return v;
+			};
+			const slopeL0 = mode === 'qp' ? lagrangianSlope(p, qp.lambda, d) : 0;
 			let alpha = 1;
 			let accepted: Point | null = null;
 			let acceptedPhi = NaN;
@@ -222,6 +231,21 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 					accepted = q;
 					acceptedPhi = phi;
 					break;
+				}
+				// within f's rounding level of φ(x) (a large offset in f rounds the decrease
+				// away): accept a step that keeps feasibility and meets the derivative form of
+				// sufficient decrease, φ′(α) ≤ (2η − 1)φ′(0) (approximate Wolfe, Hager & Zhang
+				// 2005, exact for a quadratic), with φ′ the Lagrangian's slope along d
+				if (Number.isFinite(phi) && phi <= phi0 + run.fNoise(phi0) && mode === 'qp' && slopeL0 < 0) {
+					const Cq = q.constraints();
+					if (run.violation(Cq.values) <= Math.max(run.violation(C.values), feasTol)) {
+						const sq = lagrangianSlope(q, qp.lambda, d);
+						if (sq <= (2 * ETA - 1) * slopeL0) {
+							accepted = q;
+							acceptedPhi = phi;
+							break;
+						}
+					}
 				}
 				// second-order correction of the full step (Maratos effect)
 				if (alpha === 1 && !socTried && mode === 'qp' && m > 0 && Number.isFinite(phi)) {

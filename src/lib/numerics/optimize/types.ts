@@ -83,15 +83,15 @@ export interface IterationRecord {
 }
 
 export interface OptimizeOptions {
-	/** first-order stop: ‖projected ∇f‖∞ (or the KKT stationarity and complementarity) ≤ gradTol·max(1, min(|f(start)|, |f|)) */
+	/** first-order stop: ‖projected ∇f‖∞ (or the KKT stationarity and complementarity) ≤ gradTol·max(1, ‖∇f(start)‖∞); values below 1e-15 are raised to it (noted) */
 	gradTol?: number;
 	/** no-progress stop: a step ‖Δx‖∞ ≤ stepTol·(1 + ‖x‖∞); Nelder–Mead: simplex diameter for convergence */
 	stepTol?: number;
-	/** no-progress stop: |Δf| ≤ fTol·|f| on three successive iterations; Nelder–Mead: spread of f over the simplex (relative to max(1, |f|)) */
+	/** no-progress stop: |Δf| ≤ fTol·max(1, |f(start) − f|) + f's rounding level on three successive iterations in which ‖projected ∇f‖ does not halve; Nelder–Mead: spread of f over the simplex, against the same scale */
 	fTol?: number;
 	/** largest constraint violation accepted at a converged point (absolute) */
 	feasTol?: number;
-	/** `solve` problems: |f − target| ≤ residualTol·max(1, |target|) */
+	/** `solve` problems: |f − target| ≤ residualTol·max(1, |f(start) − target|) plus the target's rounding level */
 	residualTol?: number;
 	maxIterations?: number;
 	maxEvaluations?: number;
@@ -152,8 +152,10 @@ export interface RunResult {
 	outcome: Outcome;
 	/** one line: why the run ended */
 	reason: string;
-	/** stalled, and the last point is on a knot where f′ jumps */
+	/** the end point is on a knot where f′ jumps (any optimizer, any outcome) */
 	atKink: boolean;
+	/** the end point lies outside `objective.domain` (the data's range): there the fit is its extrapolation rule */
+	outsideData: boolean;
 	x: number[];
 	/** the user's f at x */
 	f: number;

@@ -10,6 +10,16 @@
  *   with sufficient decrease and φ still falling returns `bound`.
  * - A non-finite φ or φ′ at a trial step is treated as "too far" (the
  *   interval shrinks); when every trial was non-finite the status is `nonfinite`.
+ * - Rounding of f (approximate Wolfe conditions, W. W. Hager, H. Zhang, "A new
+ *   conjugate gradient method with guaranteed descent and an efficient line
+ *   search", SIAM J. Optim. 16(1):170–192, 2005): where φ(α) is within f's
+ *   rounding level of φ(0), differences of f carry no information (a large
+ *   offset in f rounds them away), so a step with φ(α) ≤ φ(0) + noise and
+ *   |φ′(α)| ≤ c₂|φ′(0)| is accepted, and zoom narrows the interval by the sign
+ *   of φ′ at such a point. (Such a point may lie across a hump whose height is
+ *   itself below f's rounding level; the run then ends in the neighbouring
+ *   basin, with an outcome as honest as any.) Without an offset the noise level is a few ulps and this
+ *   changes nothing.
  * - When zoom cannot meet the curvature condition (at a kink φ′ jumps and never
  *   becomes small) but found sufficient decrease, the best such step is
  *   returned as `armijo`.
@@ -60,6 +70,9 @@ export function wolfeLineSearch(run: Run, p0: Point, d: number[], opts: LineSear
 		return s;
 	};
 	const armijo = (a: number, f: number) => f <= phi0 + c1 * a * dphi0;
+	const noise = run.fNoise(phi0);
+	/** within f's rounding level of φ(0): decide by φ′ alone */
+	const level = (f: number) => f <= phi0 + noise;
 
 	function zoom(aLo: number, phiLo: number, dphiLo: number, pLo: Point | null, aHi: number, phiHi: number): LineSearchResult {
 		for (let j = 0; j < maxZoom; j++) {
@@ -83,6 +96,23 @@ export function wolfeLineSearch(run: Run, p0: Point, d: number[], opts: LineSear
 				continue;
 			}
 			anyFinite = true;
+			if ((!armijo(a, phi) || phi >= phiLo) && level(phi)) {
+				const dphi = slope(q);
+				if (Number.isFinite(dphi)) {
+					if (Math.abs(dphi) <= -c2 * dphi0) return { status: 'wolfe', alpha: a, point: q };
+					// f is flat to rounding here: the sign of φ′ says which side the minimum lies
+					if (dphi * (aHi - aLo) >= 0) {
+						aHi = a;
+						phiHi = phi;
+					} else {
+						aLo = a;
+						phiLo = phi;
+						dphiLo = dphi;
+						pLo = q;
+					}
+					continue;
+				}
+			}
 			if (!armijo(a, phi) || phi >= phiLo) {
 				aHi = a;
 				phiHi = phi;
@@ -120,7 +150,23 @@ export function wolfeLineSearch(run: Run, p0: Point, d: number[], opts: LineSear
 		if (phi === -Infinity) return { status: 'wolfe', alpha: a, point: q };
 		if (!Number.isFinite(phi)) return zoom(aPrev, phiPrev, dphiPrev, pPrev, a, Infinity);
 		anyFinite = true;
-		if (!armijo(a, phi) || (i > 0 && phi >= phiPrev)) return zoom(aPrev, phiPrev, dphiPrev, pPrev, a, phi);
+		if (!armijo(a, phi) || (i > 0 && phi >= phiPrev)) {
+			const dphi = level(phi) ? slope(q) : NaN;
+			if (Number.isFinite(dphi)) {
+				if (Math.abs(dphi) <= -c2 * dphi0) return { status: 'wolfe', alpha: a, point: q };
+				// flat to rounding and still falling: keep bracketing by φ′
+				if (dphi < 0 && a >= alphaMax) return { status: 'bound', alpha: a, point: q };
+				if (dphi < 0) {
+					aPrev = a;
+					phiPrev = phi;
+					dphiPrev = dphi;
+					pPrev = q;
+					a = Math.min(alphaMax, 2 * a);
+					continue;
+				}
+			}
+			return zoom(aPrev, phiPrev, dphiPrev, pPrev, a, phi);
+		}
 		const dphi = slope(q);
 		if (!Number.isFinite(dphi)) return zoom(aPrev, phiPrev, dphiPrev, pPrev, a, Infinity);
 		if (Math.abs(dphi) <= -c2 * dphi0) return { status: 'wolfe', alpha: a, point: q };

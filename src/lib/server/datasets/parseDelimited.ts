@@ -1,7 +1,8 @@
 import Papa from 'papaparse';
 import { buildTable, type RawRecord } from './buildTable';
 import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
-import { MAX_ROWS } from './limits';
+import { clipForMessage, MAX_ROWS } from './limits';
+import { MAX_LISTED_PROBLEMS } from './problemReport';
 import { rowList } from './rowList';
 import { toCell } from './parseNumber';
 import type { Cell, ErrorDetail, ParsedTable } from './types';
@@ -78,20 +79,41 @@ export function parseDelimited(text: string, options: DelimitedOptions = {}): Pa
 		);
 	}
 	if (records.length === 0) throw new DatasetError('empty', 'the file is empty');
-	checkFieldCounts(records, delimiter);
+	const { bad, width } = checkFieldCounts(records, delimiter);
+	// A header with the wrong number of fields leaves no columns to read the rest into.
+	if (bad.length > 0 && bad[0].row === records[0].row) throw fieldCountError(bad, delimiter, width);
+	const good = bad.length > 0 ? withoutBadRows(records, bad) : records;
 
 	const lastRow = records[records.length - 1].row;
 	const inner = blankRows.filter((r) => r < lastRow && r > records[0].row);
 	if (inner.length > 0) notes.push(`skipped blank ${rowList(inner)}`);
 
-	return buildTable(records, {
-		format: delimiter === '\t' ? 'tsv' : 'csv',
-		columnLabel: (j) => `column ${j + 1}`,
-		notes,
-		warnings,
-		truncated,
-		delimiter
-	});
+	let table: ParsedTable;
+	try {
+		table = buildTable(good, {
+			format: delimiter === '\t' ? 'tsv' : 'csv',
+			columnLabel: (j) => `column ${j + 1}`,
+			notes,
+			warnings,
+			truncated,
+			delimiter
+		});
+	} catch (e) {
+		// every data row has the wrong number of fields: say that, not "no data rows"
+		if (bad.length > 0 && e instanceof DatasetError && e.code === 'no-rows') throw fieldCountError(bad, delimiter, width);
+		throw e;
+	}
+	if (bad.length > 0) {
+		// the first few, in row order, for the report and the preview; the rest are counted
+		table.badRows = bad.slice(0, MAX_LISTED_PROBLEMS).map((b) => ({
+			row: b.row,
+			code: b.other !== null ? 'mixed-delimiters' : 'field-count',
+			problem: badRowProblem(b, delimiter, width),
+			cells: b.cells.map((c) => (typeof c === 'string' ? clipForMessage(c) : c))
+		}));
+		table.badRowCount = bad.length;
+	}
+	return table;
 }
 
 /**
@@ -127,18 +149,28 @@ export function detectDelimiter(text: string, preferred = ','): string | null {
 	return best;
 }
 
+interface BadRecord {
+	row: number;
+	count: number;
+	/** the delimiter that would split the row into the table's fields, if any */
+	other: string | null;
+	cells: Cell[];
+}
+
 /**
- * Every record must have the table's field count. Rows that would have it
- * when split at another delimiter are reported as mixed delimiters.
+ * Every record must have the table's field count (the most common one);
+ * trailing empty fields are trimmed to it. Returns the records that do not
+ * have it, in row order; rows that would have it when split at another
+ * delimiter carry that delimiter.
  */
-function checkFieldCounts(records: RawRecord[], delimiter: string): void {
+function checkFieldCounts(records: RawRecord[], delimiter: string): { bad: BadRecord[]; width: number } {
 	const { mode: usual } = modalCount(records.map((r) => r.cells.length));
 	// Trailing fields that are empty in every usual row ("1,2,3," throughout) are not columns.
 	let width = 0;
 	for (const r of records) {
 		if (r.cells.length === usual) width = Math.max(width, trimmedLength(r.cells));
 	}
-	const bad: { row: number; count: number; other: string | null }[] = [];
+	const bad: BadRecord[] = [];
 	for (const record of records) {
 		const cells = record.cells;
 		const count = trimmedLength(cells);
@@ -146,27 +178,35 @@ function checkFieldCounts(records: RawRecord[], delimiter: string): void {
 			cells.length = width;
 			continue;
 		}
-		bad.push({ row: record.row, count: count > width ? count : cells.length, other: otherDelimiter(cells, delimiter, width) });
+		bad.push({ row: record.row, count: count > width ? count : cells.length, other: otherDelimiter(cells, delimiter, width), cells });
 	}
-	if (bad.length === 0) return;
+	return { bad, width };
+}
 
+function withoutBadRows(records: RawRecord[], bad: BadRecord[]): RawRecord[] {
+	const rows = new Set(bad.map((b) => b.row));
+	return records.filter((r) => !rows.has(r.row));
+}
+
+function badRowProblem(b: BadRecord, delimiter: string, width: number): string {
+	return b.other !== null
+		? `uses ${showDelimiter(b.other)} as the delimiter instead of ${showDelimiter(delimiter)}`
+		: `has ${b.count} field${b.count === 1 ? '' : 's'}; the table has ${width}`;
+}
+
+/** The table cannot be read at all: its header, or every data row, has the wrong number of fields. */
+function fieldCountError(bad: BadRecord[], delimiter: string, width: number): DatasetError {
 	const mixed = bad.filter((b) => b.other !== null);
-	const details: ErrorDetail[] = bad.slice(0, MAX_ERROR_DETAILS).map((b) => ({
-		row: b.row,
-		problem:
-			b.other !== null
-				? `uses ${showDelimiter(b.other)} as the delimiter instead of ${showDelimiter(delimiter)}`
-				: `has ${b.count} field${b.count === 1 ? '' : 's'}; the table has ${width}`
-	}));
+	const details: ErrorDetail[] = bad.slice(0, MAX_ERROR_DETAILS).map((b) => ({ row: b.row, problem: badRowProblem(b, delimiter, width) }));
 	if (mixed.length > 0) {
 		const others = [...new Set(mixed.map((m) => m.other!))].map(showDelimiter).join(' or ');
-		throw new DatasetError(
+		return new DatasetError(
 			'mixed-delimiters',
 			`${rowList(mixed.map((m) => m.row))} use${mixed.length === 1 ? 's' : ''} ${others} as the delimiter but the rest of the file uses ${showDelimiter(delimiter)}; use one delimiter throughout`,
 			details
 		);
 	}
-	throw new DatasetError(
+	return new DatasetError(
 		'field-count',
 		`${rowList(bad.map((b) => b.row))} ${bad.length === 1 ? 'does' : 'do'} not have ${width} fields like the rest of the table (${details
 			.slice(0, 3)

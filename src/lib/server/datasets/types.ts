@@ -27,6 +27,15 @@ export interface ParsedTable {
 	/** data rows only, each exactly columns.length long */
 	rows: Cell[][];
 	/**
+	 * Records left out of `rows` because they do not have the table's number of
+	 * fields (CSV/TSV): the first of them in row order, with their cells as read
+	 * (long texts clipped), so the check can report them beside the cell
+	 * problems of the rest and the preview can show them.
+	 */
+	badRows?: BadRow[];
+	/** how many records were left out in all (badRows may list fewer) */
+	badRowCount?: number;
+	/**
 	 * rowNumbers[i] is the number the user sees for rows[i]: 1-based, counting
 	 * the header and units rows (the record number in CSV/TSV, the sheet row in
 	 * XLSX, the position in `rows` for JSON bodies).
@@ -40,6 +49,15 @@ export interface ParsedTable {
 	notes: string[];
 	/** things that were read but look wrong */
 	warnings: string[];
+}
+
+export interface BadRow {
+	/** the row number the user sees */
+	row: number;
+	code: 'field-count' | 'mixed-delimiters';
+	/** "has 2 fields; the table has 3" */
+	problem: string;
+	cells: Cell[];
 }
 
 export interface ValidationIssue {
@@ -57,7 +75,10 @@ export interface ValidationReport {
 	shapeReason: string;
 	columns: { name: string; unit: string | null; role: Role }[];
 	rowCount: number;
+	/** in the order problemReport gives: table-wide first, then row by row; bounded, with an "and N more" note */
 	errors: ValidationIssue[];
+	/** every problem found, listed or not (0 when ok) */
+	problemCount: number;
 	warnings: string[];
 	notes: string[];
 	/** one array per column, in column order; present only when ok */

@@ -1,11 +1,9 @@
 import { clipForMessage, MAX_COLUMNS, MAX_ROWS, formatCount } from './limits';
 import { describeNonNumber, parseNumber } from './parseNumber';
+import { MAX_LISTED_PROBLEMS, orderProblems, problemGroup } from './problemReport';
 import { rowList } from './rowList';
 import type { ParsedTable, Role, Shape, ValidationIssue, ValidationReport } from './types';
 
-// Cell problems listed one by one; past these a count stands for the rest.
-const MAX_CELL_ERRORS = 100;
-const MAX_CELL_ERRORS_PER_COLUMN = 20;
 const MAX_DUPLICATE_GROUPS = 10;
 const MAX_MISSING_LISTED = 10;
 // Several inputs filling at least this share of their tensor product are
@@ -22,6 +20,8 @@ const MAX_SCATTER_INPUTS = 6;
  */
 export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>): ValidationReport {
 	const errors: ValidationIssue[] = [];
+	// problems found but not kept (each check keeps its first MAX_LISTED_PROBLEMS in row order), by group
+	const uncollected = new Map<string, number>();
 	const warnings = [...parsed.warnings];
 	const notes = [...parsed.notes];
 	const n = parsed.rows.length;
@@ -83,8 +83,13 @@ export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>)
 		errors.push({ code: 'no-output', message: 'the table has no output column; at least one column must be an output' });
 	}
 
+	// Rows with the wrong number of fields were left out of the table; they are reported with the cells of the rest.
+	for (const b of parsed.badRows ?? []) errors.push({ code: b.code, row: b.row, message: `row ${b.row} ${b.problem}` });
+	const badRowsLeft = (parsed.badRowCount ?? 0) - (parsed.badRows?.length ?? 0);
+	if (badRowsLeft > 0) uncollected.set(problemGroup({ code: 'field-count' }), badRowsLeft);
+
 	const data = columns.map(() => new Float64Array(n));
-	const numeric = columns.map((_, j) => readColumn(parsed, j, data[j], errors));
+	const numeric = columns.map((_, j) => readColumn(parsed, j, data[j], errors, uncollected));
 
 	let shape: Shape | null = null;
 	let shapeReason: string;
@@ -110,21 +115,31 @@ export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>)
 	}
 
 	const ok = errors.length === 0;
+	const ordered = orderProblems(
+		errors,
+		columns.map((c) => c.name),
+		uncollected
+	);
 	return {
 		ok,
 		shape,
 		shapeReason,
 		columns,
 		rowCount: n,
-		errors,
+		errors: ordered.listed,
+		problemCount: ordered.count,
 		warnings,
 		notes,
 		...(ok ? { data } : {})
 	};
 }
 
-/** Fills `out` with column j's numbers; reports bad cells and says whether all were numbers. */
-function readColumn(parsed: ParsedTable, j: number, out: Float64Array, errors: ValidationIssue[]): boolean {
+/**
+ * Fills `out` with column j's numbers; reports bad cells (the first
+ * MAX_LISTED_PROBLEMS in row order, the rest counted in `uncollected`) and
+ * says whether all were numbers.
+ */
+function readColumn(parsed: ParsedTable, j: number, out: Float64Array, errors: ValidationIssue[], uncollected: Map<string, number>): boolean {
 	const name = parsed.columns[j].name;
 	const problems: ValidationIssue[] = [];
 	let empty = 0;
@@ -140,7 +155,7 @@ function readColumn(parsed: ParsedTable, j: number, out: Float64Array, errors: V
 		const isEmpty = cell === null || (typeof cell === 'string' && cell.trim() === '');
 		if (isEmpty) empty++;
 		else text++;
-		if (problems.length >= MAX_CELL_ERRORS_PER_COLUMN) continue;
+		if (problems.length >= MAX_LISTED_PROBLEMS) continue;
 		const row = parsed.rowNumbers[i];
 		if (isEmpty) {
 			problems.push({ code: 'empty-cell', row, column: name, message: `row ${row}, column "${name}": the cell is empty` });
@@ -166,15 +181,11 @@ function readColumn(parsed: ParsedTable, j: number, out: Float64Array, errors: V
 			message: `column "${name}" holds text, not numbers (${examples.join(', ')}, …); remove the column or put numbers in it`
 		});
 	} else {
-		const room = Math.max(0, MAX_CELL_ERRORS - errors.length);
-		errors.push(...problems.slice(0, room));
-		const unlisted = bad - Math.min(problems.length, room);
+		errors.push(...problems);
+		const unlisted = bad - problems.length;
 		if (unlisted > 0) {
-			errors.push({
-				code: 'more-cell-errors',
-				column: name,
-				message: `column "${name}": ${formatCount(unlisted)} more cell${unlisted === 1 ? '' : 's'} empty or not a number (not listed)`
-			});
+			const group = problemGroup({ code: 'cell', column: name });
+			uncollected.set(group, (uncollected.get(group) ?? 0) + unlisted);
 		}
 	}
 	return false;

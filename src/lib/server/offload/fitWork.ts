@@ -12,6 +12,7 @@ import { FitError, type FitErrorCode } from '../../numerics/fits/FitError';
 import { fitCurve } from '../../numerics/fits/fitCurve';
 import type { CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { sizeProblem } from './limits';
+import { buildSurfaceFits, type SurfaceBuildTask } from './surfaceWork';
 
 // Evenly spaced samples across the domain; the knots are added when there are
 // not too many, so f′ and f″ break exactly where the fit does.
@@ -55,7 +56,7 @@ export type BuildTask = {
 	columns: Record<string, Float64Array>;
 	fits: { method: CurveMethod; options: CurveFitOptions; outputs: string[] }[];
 };
-export type FitTask = PreviewTask | BuildTask;
+export type FitTask = PreviewTask | BuildTask | SurfaceBuildTask;
 
 export type PreviewResult = { ok: true; preview: FitPreview } | { ok: false; problem: FitProblem };
 /** Per study fit: the fit files (JSON) of each output in order, or the first problem. */
@@ -134,5 +135,6 @@ export function buildFits(task: BuildTask): BuildResult {
 }
 
 export function runFitTask(task: FitTask): PreviewResult | BuildResult {
+	if (task.kind === 'build-surface') return buildSurfaceFits(task);
 	return task.kind === 'preview' ? previewFit(task) : buildFits(task);
 }

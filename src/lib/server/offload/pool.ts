@@ -11,6 +11,7 @@ import { ThreadLost, ThreadPool } from '../studies/threadPool';
 import { StudyRejected } from '../studies/launch';
 import { formatBudget, LAUNCH_BUILD_BUDGET_MS, MAX_WAITING } from './limits';
 import type { BuildResult, BuildTask, FitTask } from './fitWork';
+import type { SurfaceBuildTask } from './surfaceWork';
 import type { ParseTask } from './tableWork';
 import { PARSE_HEAP_MB } from '../datasets/limits';
 
@@ -47,6 +48,7 @@ const compact = (a: Float64Array) => (a.byteOffset === 0 && a.byteLength === a.b
 function compactTask(task: FitTask | ParseTask): FitTask | ParseTask {
 	if (task.kind === 'parse') return task;
 	if (task.kind === 'preview') return { ...task, x: compact(task.x), y: compact(task.y) };
+	if (task.kind === 'build-surface') return { ...task, inputs: task.inputs.map(compact), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 	return { ...task, x: compact(task.x), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 }
 
@@ -69,12 +71,12 @@ export async function runOffThread<R>(task: FitTask | ParseTask, budgetMs: numbe
  * A study launch's fit building on an offload thread, within LAUNCH_BUILD_BUDGET_MS.
  * Over budget, the launch is refused naming the limit (nothing is stored yet).
  */
-export async function buildFitsOnThread(task: BuildTask): Promise<BuildResult> {
+export async function buildFitsOnThread(task: BuildTask | SurfaceBuildTask): Promise<BuildResult> {
 	try {
 		return await runOffThread<BuildResult>(task, LAUNCH_BUILD_BUDGET_MS);
 	} catch (e) {
 		if (e instanceof OffloadOverBudget) {
-			const rows = task.x.length.toLocaleString('en-US');
+			const rows = (task.kind === 'build' ? task.x.length : (task.inputs[0]?.length ?? 0)).toLocaleString('en-US');
 			throw new StudyRejected([{ field: 'fits', problem: `building ${task.fits.length} fit(s) of ${rows} rows ${e.message} (the limit for one launch); use fewer or cheaper fits, or thin the table` }]);
 		}
 		if (e instanceof OffloadBusy) throw new StudyRejected([{ field: 'fits', problem: e.message }]);

@@ -20,10 +20,20 @@ export async function studyAccess(locals: App.Locals, id: string, need: Role = '
 	}
 }
 
-/** A study opened through a share link; revoked or expired links are 404 on the very next request. */
+/**
+ * A study opened through a share link; revoked or expired links are 404 on the
+ * very next request. Member names (who launched it, who picked its fit) are
+ * removed here, for every page and API behind the token, unless the owner
+ * chose to show them on this link.
+ */
 export async function sharedStudy(token: string): Promise<store.Study> {
-	const id = await store.studyIdForToken(db(), token);
-	const study = id ? await store.get(db(), id) : null;
-	if (!study) fail4xx(404, 'this link is not valid: it was revoked, it expired, or it never existed');
-	return study;
+	const share = await store.shareForToken(db(), token);
+	const study = share ? await store.get(db(), share.studyId) : null;
+	if (!share || !study) fail4xx(404, 'this link is not valid: it was revoked, it expired, or it never existed');
+	return share.showNames ? study : withoutMemberNames(study);
+}
+
+/** The study as a link holder sees it by default: no member names or ids. */
+export function withoutMemberNames(study: store.Study): store.Study {
+	return { ...study, createdBy: null, pick: study.pick ? { ...study.pick, by: null } : null };
 }

@@ -17,7 +17,13 @@ import { monotoneStretches } from '../../numerics/audit/monotoneStretches';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../numerics/fits/types';
+import { auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
+import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
+import type { SurfaceFit } from '../../numerics/fits/surfaceTypes';
+import { TensorGrid } from '../../numerics/fits/TensorGrid';
+import { surfaceProblem } from './surfaceProblem';
 import { optimize } from '../../numerics/optimize/optimize';
+import { brokenRun } from '../../numerics/optimize/run';
 import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../numerics/optimize/types';
 import { getWithData } from '../datasetStore';
 import { insertJobs } from './boss';
@@ -57,6 +63,8 @@ interface Prepared {
 	spec: StudySpec;
 	starts: number[][];
 	fit: CurveFit;
+	/** the surface fit, for studies of two or more inputs (fit is then unused) */
+	surface?: SurfaceFit;
 	problem: Problem;
 	/** how reasons are reworded in the study's own sense (reasonWording.ts) */
 	wording: ReasonContext;
@@ -102,6 +110,7 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 	]);
 	if (!study || !fitRow) return null;
 	const spec = study.spec as StudySpec;
+	if (spec.dataset?.shape && spec.dataset.shape !== 'curve') return prepareSurface(ctx, key, study, spec, fitRow);
 	const fit = fitFromJSON(fitRow.fit);
 	const constraintFits = (fitRow.constraint_fits as unknown[]).map((j) => fitFromJSON(j));
 	const kinks = kinksOf(fit);
@@ -124,6 +133,29 @@ async function prepare(ctx: RunnerContext, studyId: string, fitId: string): Prom
 		fit,
 		problem: curveProblem(fit, constraintFits, problemSpec(spec), kinks),
 		wording
+	};
+	if (ctx.cache) {
+		if (ctx.cache.size >= CACHE_LIMIT) ctx.cache.delete(ctx.cache.keys().next().value!);
+		ctx.cache.set(key, prepared);
+	}
+	return prepared;
+}
+
+/** A study of two or more inputs: surface fits, the surface problem; kinks from the grid audit. */
+function prepareSurface(ctx: RunnerContext, key: string, study: Record<string, unknown>, spec: StudySpec, fitRow: Record<string, unknown>): Prepared {
+	const surface = surfaceFromJSON(fitRow.fit);
+	const constraintFits = (fitRow.constraint_fits as unknown[]).map((j) => surfaceFromJSON(j));
+	const n = study.n_inputs as number;
+	const prepared: Prepared = {
+		studyId: study.id as string,
+		queue: study.queue as string,
+		n,
+		spec,
+		starts: unpackStarts(study.starts as Buffer, study.start_count as number, n),
+		fit: null as unknown as CurveFit,
+		surface,
+		problem: surfaceProblem(surface, constraintFits, problemSpec(spec)),
+		wording: { kind: spec.problem.kind, bounds: spec.problem.bounds, measured: surface.continuity, kinked: surface.continuity === 'C0', method: surface.method }
 	};
 	if (ctx.cache) {
 		if (ctx.cache.size >= CACHE_LIMIT) ctx.cache.delete(ctx.cache.keys().next().value!);
@@ -157,7 +189,7 @@ const ADVANCE_SQL = `UPDATE studies SET
 		status = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN 'done' ELSE 'running' END,
 		finished_at = CASE WHEN runs_done + :runs >= runs_total AND audits_done + :audits >= audits_total THEN now() ELSE finished_at END`;
 
-const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
+const RUN_COLUMNS = 'study_id, fit_id, optimizer, start_index, outcome, at_kink, outside_data, reason, iterations, evals_f, evals_grad, evals_hess, x, f, grad_norm, ms, path_length, path, worker';
 
 /** JSON has no NaN or ±Infinity; PostgreSQL's float8 input reads them as text. */
 const jnum = (v: number): number | string => (Number.isFinite(v) ? v : String(v));
@@ -170,6 +202,7 @@ function runRecord(p: Prepared, fitId: string, optimizer: number, startIndex: nu
 		start_index: startIndex,
 		outcome: r.outcome,
 		at_kink: r.atKink,
+		outside_data: r.outsideData === true,
 		reason: studyReason(r, p.wording).slice(0, 500),
 		iterations: r.iterations,
 		evals_f: r.evaluations.f,
@@ -197,9 +230,9 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 			SELECT id FROM studies WHERE id = :study AND status IN ('queued', 'running') FOR UPDATE
 		), ins AS (
 			INSERT INTO study_runs (${RUN_COLUMNS})
-			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
+			SELECT r.study_id, r.fit_id, r.optimizer, r.start_index, r.outcome, r.at_kink, r.outside_data, r.reason, r.iterations, r.evals_f, r.evals_grad, r.evals_hess,
 				r.x, r.f, r.grad_norm, r.ms, r.path_length, decode(r.path, 'base64'), r.worker
-			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, reason text,
+			FROM json_to_recordset(CAST(:rows AS json)) AS r(study_id uuid, fit_id uuid, optimizer smallint, start_index int, outcome text, at_kink boolean, outside_data boolean, reason text,
 				iterations int, evals_f int, evals_grad int, evals_hess int, x float8[], f float8, grad_norm float8, ms real, path_length int, path text, worker text)
 			WHERE EXISTS (SELECT 1 FROM s)
 			ON CONFLICT (study_id, fit_id, optimizer, start_index) DO NOTHING
@@ -211,6 +244,20 @@ async function storeRuns(trx: Knex.Transaction, studyId: string, rows: ReturnTyp
 		{ study: studyId, rows: JSON.stringify(rows) }
 	);
 	return out.length ? { status: out[0].status, inserted: out[0].inserted } : { status: null, inserted: 0 };
+}
+
+/**
+ * One run that can never fail its study: an error thrown by the fit or the
+ * optimizer is stored as a `diverged` run with the error as its reason (and
+ * logged), instead of failing the job and, after its retries, the study.
+ */
+function safeOptimize(problem: Problem, method: OptimizerName, options: OptimizeOptions, start: number[]): RunResult {
+	try {
+		return optimize(problem, method, options, start);
+	} catch (err) {
+		console.error(`study run (${method}) failed and is stored as diverged:`, err);
+		return brokenRun(problem, method, start, err);
+	}
 }
 
 async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs' }>, attempt: number): Promise<JobResult> {
@@ -264,7 +311,7 @@ async function runRuns(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'runs'
 		}
 		for (const o of optimizers) {
 			if (done.has(`${o.index}/${s}`)) continue;
-			batch.push(runRecord(p, job.fitId, o.index, s, optimize(p.problem, o.method, o.options, p.starts[s]), worker));
+			batch.push(runRecord(p, job.fitId, o.index, s, safeOptimize(p.problem, o.method, o.options, p.starts[s]), worker));
 		}
 		const now = Date.now();
 		if (s < job.to - 1 && now - t0 > softMs) {
@@ -321,6 +368,7 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 	if (!dataset) throw new Error(`dataset ${study.dataset_id} of study ${job.studyId} is gone`);
 	const xi = dataset.columns.findIndex((c) => c.role === 'input');
 	const yi = dataset.columns.findIndex((c) => c.name === study.output);
+	if (p.surface) return storeAudit(ctx, job, p, status!, surfaceAuditSummary(p.surface), { kind: 'none', x: null, f: null, samples: 0, fRange: 0, note: 'the dense reference search covers one-input problems' }, null);
 	const fit = p.fit;
 	const fitPosition = fitRow.position as number;
 
@@ -370,7 +418,34 @@ async function runAudit(ctx: RunnerContext, job: Extract<StudyJob, { kind: 'audi
 	const reference = safe(() => referenceOptimum(p.problem, p.spec.problem.bounds, Math.min(20_001, Math.max(4001, 20 * dataset.rowCount + 1))));
 	const samples = curveSamples(fit, p.spec.problem.bounds[0]);
 
-	let state: string = status!;
+	return storeAudit(ctx, job, p, status!, { smoothness, fidelity }, reference, samples);
+}
+
+/** A surface fit's audit summary: the measured class per input and the kinked grid lines (grid fits); RBF leave-one-out. */
+function surfaceAuditSummary(fit: SurfaceFit): { smoothness: unknown; fidelity: unknown } {
+	const smoothness =
+		fit instanceof TensorGrid
+			? safe(() => {
+					const a = auditSurfaceSmoothness(fit, 5);
+					return { declared: fit.continuity, measured: a.overall, perInput: a.perInput, kinkLines: a.kinkLines, worstLines: a.worstLines };
+				})
+			: { declared: fit.continuity, measured: fit.continuity, perInput: fit.axisContinuity, kinkLines: [], worstLines: [] };
+	const loo = fit.stats.looResiduals;
+	const fidelity = loo ? { looRmse: fit.stats.looRms ?? null, looMax: Math.max(...Array.from(loo, Math.abs)), looMethod: 'rippa', condition: fit.stats.condition ?? null, notes: fit.notes } : { looRmse: null, looMax: null, notes: fit.notes };
+	return { smoothness, fidelity };
+}
+
+async function storeAudit(
+	ctx: RunnerContext,
+	job: Extract<StudyJob, { kind: 'audit' }>,
+	p: Prepared,
+	status: string,
+	audit: { smoothness: unknown; fidelity: unknown },
+	reference: unknown,
+	samples: unknown
+): Promise<JobResult> {
+	const { smoothness, fidelity } = audit;
+	let state: string = status;
 	let stored = 0;
 	await ctx.db.transaction(async (trx) => {
 		const locked = await trx('studies').where({ id: job.studyId }).whereIn('status', ACTIVE_STATUSES).forUpdate().first('id');

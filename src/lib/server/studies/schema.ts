@@ -8,10 +8,17 @@ import { UUID_PATTERN } from '../../text';
 import { z } from 'zod';
 import { curveMethods } from '../../numerics/fits/fitCurve';
 import type { CurveMethod } from '../../numerics/fits/types';
+import { gridMethods } from '../../numerics/fits/fitGrid';
+import type { GridMethod, ScatterMethod, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import type { OptimizerName } from '../../numerics/optimize/types';
 
-export const FIT_METHODS = Object.keys(curveMethods) as CurveMethod[];
+export const CURVE_FIT_METHODS = Object.keys(curveMethods) as CurveMethod[];
+export const GRID_FIT_METHODS = Object.keys(gridMethods) as GridMethod[];
+export const SCATTER_FIT_METHODS: ScatterMethod[] = ['rbf-thin-plate', 'rbf-multiquadric', 'rbf-gaussian'];
+export const FIT_METHODS: (CurveMethod | SurfaceMethod)[] = [...CURVE_FIT_METHODS, ...GRID_FIT_METHODS, ...SCATTER_FIT_METHODS];
+/** most inputs a study takes (scattered fits; grid fits take up to 4) */
+export const MAX_STUDY_INPUTS = 6;
 export const OPTIMIZER_NAMES = Object.keys(OPTIMIZERS) as OptimizerName[];
 
 export const MAX_STARTS = 1000;
@@ -49,18 +56,29 @@ const fitOptionsSchema = z.strictObject(
 		duplicates: z.enum(['error', 'average'], { error: 'duplicates must be error or average' }).optional(),
 		nonFinite: z.enum(['error', 'drop'], { error: 'nonFinite must be error or drop' }).optional(),
 		slopes: z.tuple([finite('slopes[0]'), finite('slopes[1]')], { error: 'slopes must be two numbers: f′ at the first and at the last x' }).optional(),
-		degree: int('degree', 0, 15).optional(),
+		degree: int('degree', -1, 15).optional(),
+		smoothing: z.number({ error: 'smoothing must be a number' }).min(0, { error: 'smoothing must be 0 or more' }).refine(Number.isFinite, { error: 'smoothing must be finite' }).optional(),
+		epsilon: z.number({ error: 'epsilon must be a number' }).gt(0, { error: 'epsilon must be greater than 0' }).refine(Number.isFinite, { error: 'epsilon must be finite' }).optional(),
 		lambda: z.number({ error: 'lambda must be a number' }).min(0, { error: 'lambda must be 0 or more' }).refine(Number.isFinite, { error: 'lambda must be finite' }).optional(),
 		width: z.number({ error: 'width must be a number' }).gt(0, { error: 'width must be greater than 0' }).refine(Number.isFinite, { error: 'width must be finite' }).optional()
 	},
 	{ error: (i) => (i.code === 'unrecognized_keys' ? `unknown fit option ${i.keys.map((k) => `"${k}"`).join(', ')}` : 'options must be an object') }
 );
 
-/** options that belong to one method only */
-const METHOD_ONLY: Record<string, CurveMethod> = { degree: 'polynomial-least-squares', lambda: 'smoothing-spline', width: 'softened-linear', slopes: 'cubic-clamped' };
+/** options that belong to some methods only */
+const METHOD_ONLY: Record<string, readonly string[]> = {
+	degree: ['polynomial-least-squares', ...SCATTER_FIT_METHODS],
+	lambda: ['smoothing-spline'],
+	width: ['softened-linear'],
+	slopes: ['cubic-clamped'],
+	smoothing: SCATTER_FIT_METHODS,
+	epsilon: ['rbf-multiquadric', 'rbf-gaussian']
+};
+/** curve-only options of every method (surface fits take extrapolation refuse | extend and their own) */
+const CURVE_ONLY_OPTIONS = ['duplicates', 'nonFinite'] as const;
 
 const fitSchema = z.object({
-	method: z.enum(FIT_METHODS as [CurveMethod, ...CurveMethod[]], { error: `unknown fit method; one of ${FIT_METHODS.join(', ')}` }),
+	method: z.enum(FIT_METHODS as [string, ...string[]], { error: `unknown fit method; one of ${FIT_METHODS.join(', ')}` }),
 	options: fitOptionsSchema.optional()
 });
 
@@ -98,6 +116,7 @@ const problemSchema = z
 				error: 'bounds must be a list of [lo, hi], one per input (null: the data’s edge)'
 			})
 			.min(1, { error: 'bounds need one [lo, hi] per input' })
+			.max(MAX_STUDY_INPUTS, { error: `a study takes at most ${MAX_STUDY_INPUTS} inputs, so at most ${MAX_STUDY_INPUTS} bounds` })
 			.optional(),
 		constraints: z.array(constraintSchema, { error: 'constraints must be a list' }).max(MAX_CONSTRAINTS, { error: `at most ${MAX_CONSTRAINTS} constraints` }).optional()
 	})
@@ -145,9 +164,18 @@ export const studyInputSchema = z
 	})
 	.superRefine((s, ctx) => {
 		s.fits.forEach((f, i) => {
-			for (const [key, method] of Object.entries(METHOD_ONLY)) {
-				if (f.options && key in f.options && f.method !== method) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', key], message: `${key} applies only to ${method}, not ${f.method}` });
+			for (const [key, methods] of Object.entries(METHOD_ONLY)) {
+				if (f.options && key in f.options && !methods.includes(f.method)) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', key], message: `${key} applies only to ${methods.join(', ')}, not ${f.method}` });
 			}
+			const surface = !(CURVE_FIT_METHODS as string[]).includes(f.method);
+			if (surface) {
+				for (const key of CURVE_ONLY_OPTIONS) if (f.options && key in f.options) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', key], message: `${key} applies to curve fits, not ${f.method}` });
+				const ext = f.options?.extrapolation;
+				if (ext && ext !== 'refuse' && ext !== 'extend') ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', 'extrapolation'], message: `${f.method} extrapolates by refuse or extend, not ${ext}` });
+			}
+			const degree = f.options?.degree;
+			if (degree !== undefined && (SCATTER_FIT_METHODS as string[]).includes(f.method) && degree > 1) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', 'degree'], message: `the polynomial tail of ${f.method} has degree −1 (none), 0 or 1, not ${degree}` });
+			if (degree !== undefined && f.method === 'polynomial-least-squares' && degree < 0) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', 'degree'], message: 'degree must be at least 0' });
 			if (f.method === 'cubic-clamped' && !f.options?.slopes) ctx.addIssue({ code: 'custom', path: ['fits', i, 'options', 'slopes'], message: 'cubic-clamped needs slopes: [f′ at the first x, f′ at the last x]' });
 		});
 		const starts = s.starts.points?.length ?? s.starts.grid ?? s.starts.latinHypercube ?? 0;
@@ -264,5 +292,19 @@ export const shareSchema = z.object({
 			.min(1, { error: 'expiresInDays must be at least 1' })
 			.max(365, { error: 'expiresInDays can be at most 365' })
 			.optional()
-	)
+	),
+	/** show member names (who launched, who picked) to link holders; hidden unless asked for */
+	showNames: z.preprocess(formBoolean, z.boolean({ error: 'showNames must be true or false' }).optional())
 });
+
+/** Turn member names on a live share link on or off. */
+export const shareNamesSchema = z.object({
+	showNames: z.preprocess(formBoolean, z.boolean({ error: 'showNames must be true or false' }))
+});
+
+/** A checkbox sends "on" (or "true"); an unticked one sends nothing. JSON sends a boolean. */
+function formBoolean(v: unknown): unknown {
+	if (v === 'on' || v === 'true') return true;
+	if (v === 'false' || v === '') return false;
+	return v;
+}

@@ -25,12 +25,15 @@ export interface ScorecardRow {
 	optimizer: string;
 	optimizerIndex: number;
 	runs: number;
+	/** share of runs that converged away from a kink */
 	successRate: number;
 	medianIterations: number | null;
 	medianEvaluations: number | null;
 	best: { x: number[]; f: number; runId: number; converged: boolean } | null;
 	outcomes: Record<(typeof OUTCOMES)[number], number>;
 	atKink: number;
+	/** runs whose end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: number;
 	/** range of x* and of f* over the converged runs */
 	spread: { x: number; f: number } | null;
 	reference: { x: number[] | null; f: number | null } | null;
@@ -54,6 +57,8 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 		`SELECT fit_id, optimizer, count(*)::int AS runs,
 			${OUTCOMES.map((o) => `count(*) FILTER (WHERE outcome = '${o}')::int AS "${o}"`).join(', ')},
 			count(*) FILTER (WHERE at_kink)::int AS at_kink,
+			count(*) FILTER (WHERE outcome = 'converged' AND NOT at_kink AND NOT outside_data)::int AS converged_smooth,
+			count(*) FILTER (WHERE outside_data)::int AS outside_data,
 			percentile_cont(0.5) WITHIN GROUP (ORDER BY iterations) AS median_iterations,
 			percentile_cont(0.5) WITHIN GROUP (ORDER BY evals_f) AS median_evaluations,
 			min(f) FILTER (WHERE outcome = 'converged') AS f_lo, max(f) FILTER (WHERE outcome = 'converged') AS f_hi,
@@ -116,7 +121,9 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 				: null;
 		const monotone = monotoneOf(fit);
 		const continuity = { declared: fit?.continuity ?? '?', measured: fit?.smoothness?.error ? null : (fit?.smoothness?.measured ?? null) };
-		const successRate = runs ? converged / runs : 0;
+		// a run that "converges" on a knot where f′ jumps (a derivative-free method at a corner of the
+		// fit), or outside the data (on the extrapolation), is counted as such, not as a success
+		const successRate = runs ? (s.converged_smooth as number) / runs : 0;
 		const optima = converged ? separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width) : null;
 		// the data's range of y (overshoot / overshootRelative) when the audit shows it, else the fit's own range over the bounds
 		const dataRange = fidelity?.overshoot && fidelity.overshootRelative ? fidelity.overshoot / fidelity.overshootRelative : null;
@@ -133,6 +140,7 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			best: b ? { x: b.x, f: b.f, runId: Number(b.id), converged: b.converged } : null,
 			outcomes: Object.fromEntries(OUTCOMES.map((o) => [o, s[o] as number])) as ScorecardRow['outcomes'],
 			atKink: s.at_kink as number,
+			outsideData: s.outside_data as number,
 			spread: converged ? { x: (num(s.x_hi) ?? 0) - (num(s.x_lo) ?? 0), f: (num(s.f_hi) ?? 0) - (num(s.f_lo) ?? 0) } : null,
 			reference: ref ? { x: ref.x, f: ref.f } : null,
 			gap,
@@ -141,7 +149,7 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			fidelity,
 			monotone,
 			optima,
-			verdict: verdict({ kind, successRate, runs, atKink: s.at_kink as number, reachesReference: reaches, continuity, fidelity, optima, fRange, bestLooRmse: bestLoo, monotoneBroken: brokenText(monotone), roots: fit?.reference?.roots?.length ?? null })
+			verdict: verdict({ kind, successRate, runs, atKink: s.at_kink as number, outsideData: s.outside_data as number, reachesReference: reaches, continuity, fidelity, optima, fRange, bestLooRmse: bestLoo, monotoneBroken: brokenText(monotone), roots: fit?.reference?.roots?.length ?? null })
 		};
 	});
 	return rank(rows);

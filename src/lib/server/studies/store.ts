@@ -140,6 +140,8 @@ export interface RunRow {
 	start: number[];
 	outcome: string;
 	atKink: boolean;
+	/** the end point lies outside the data's range (on the fit's extrapolation) */
+	outsideData: boolean;
 	reason: string;
 	iterations: number;
 	evaluations: { f: number; grad: number };
@@ -156,7 +158,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		.join('study_fits as sf', 'sf.id', 'r.fit_id')
 		.where('r.study_id', study.id)
 		.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
+		.select('r.public_id as id', 'r.fit_id', 'sf.method', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms');
 	if (filter.fitId) q.where('r.fit_id', filter.fitId);
 	if (filter.optimizer !== undefined) q.where('r.optimizer', filter.optimizer);
 	if (filter.limit !== undefined) q.limit(filter.limit);
@@ -173,6 +175,7 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 		start: starts[r.start_index],
 		outcome: r.outcome,
 		atKink: r.at_kink,
+		outsideData: r.outside_data,
 		reason: r.reason,
 		iterations: r.iterations,
 		evaluations: { f: r.evals_f, grad: r.evals_grad },
@@ -200,6 +203,7 @@ export interface RunColumns {
 	start: number[];
 	outcome: string[];
 	atKink: boolean[];
+	outsideData: boolean[];
 	reason: string[];
 	iterations: number[];
 	evalsF: number[];
@@ -217,7 +221,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 			.join('study_fits as sf', 'sf.id', 'r.fit_id')
 			.where('r.study_id', study.id)
 			.orderBy([{ column: 'sf.position' }, { column: 'r.optimizer' }, { column: 'r.start_index' }])
-			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
+			.select('r.public_id as id', 'sf.position', 'r.optimizer', 'r.start_index', 'r.outcome', 'r.at_kink', 'r.outside_data', 'r.reason', 'r.iterations', 'r.evals_f', 'r.evals_grad', 'r.x', 'r.f', 'r.grad_norm', 'r.ms'),
 		db('studies').where({ id: study.id }).first('starts')
 	]);
 	const a = new Float64Array(study.startCount * study.nInputs);
@@ -233,6 +237,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		start: [],
 		outcome: [],
 		atKink: [],
+		outsideData: [],
 		reason: [],
 		iterations: [],
 		evalsF: [],
@@ -249,6 +254,7 @@ export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nIn
 		out.start.push(r.start_index);
 		out.outcome.push(r.outcome);
 		out.atKink.push(r.at_kink);
+		out.outsideData.push(r.outside_data);
 		out.reason.push(r.reason);
 		out.iterations.push(r.iterations);
 		out.evalsF.push(r.evals_f);
@@ -299,6 +305,8 @@ export interface Share {
 	createdAt: Date;
 	expiresAt: Date | null;
 	createdBy: string | null;
+	/** link holders see member names (who launched, who picked) */
+	showNames: boolean;
 }
 
 /** The study's live link, if any (the token itself is never stored). */
@@ -309,32 +317,48 @@ export async function activeShare(db: Db, studyId: string): Promise<Share | null
 		.whereNull('sh.revoked_at')
 		.where((q) => q.whereNull('sh.expires_at').orWhere('sh.expires_at', '>', db.fn.now()))
 		.orderBy('sh.created_at', 'desc')
-		.first('sh.id', 'sh.created_at', 'sh.expires_at', 'u.name');
-	return row ? { id: row.id, createdAt: row.created_at, expiresAt: row.expires_at, createdBy: row.name ?? null } : null;
+		.first('sh.id', 'sh.created_at', 'sh.expires_at', 'sh.show_names', 'u.name');
+	return row ? { id: row.id, createdAt: row.created_at, expiresAt: row.expires_at, createdBy: row.name ?? null, showNames: row.show_names === true } : null;
 }
 
 /** A new read-only link (256-bit token, stored hashed); any earlier link of the study is revoked. */
-export async function createShare(db: Knex, studyId: string, userId: string, expiresInDays?: number): Promise<{ token: string; expiresAt: Date | null }> {
+export async function createShare(
+	db: Knex,
+	studyId: string,
+	userId: string,
+	expiresInDays?: number,
+	showNames = false
+): Promise<{ token: string; expiresAt: Date | null; showNames: boolean }> {
 	const token = newSecret(32);
 	const expiresAt = expiresInDays ? new Date(Date.now() + expiresInDays * 86_400_000) : null;
 	await db.transaction(async (trx) => {
 		await trx('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: trx.fn.now() });
-		await trx('study_shares').insert({ study_id: studyId, token_hash: sha256(token), created_by: userId, expires_at: expiresAt });
+		await trx('study_shares').insert({ study_id: studyId, token_hash: sha256(token), created_by: userId, expires_at: expiresAt, show_names: showNames });
 	});
-	return { token, expiresAt };
+	return { token, expiresAt, showNames };
+}
+
+/** Show or hide member names on the study's live link; false when the study has no live link. */
+export async function setShareNames(db: Db, studyId: string, showNames: boolean): Promise<boolean> {
+	const n = await db('study_shares')
+		.where({ study_id: studyId })
+		.whereNull('revoked_at')
+		.where((q) => q.whereNull('expires_at').orWhere('expires_at', '>', db.fn.now()))
+		.update({ show_names: showNames });
+	return n > 0;
 }
 
 export async function revokeShares(db: Db, studyId: string): Promise<number> {
 	return db('study_shares').where({ study_id: studyId }).whereNull('revoked_at').update({ revoked_at: db.fn.now() });
 }
 
-/** The study a share token opens, checked on every request (so revoking takes effect at once). */
-export async function studyIdForToken(db: Db, token: string): Promise<string | null> {
+/** The study a share token opens and whether it shows member names, checked on every request (so revoking takes effect at once). */
+export async function shareForToken(db: Db, token: string): Promise<{ studyId: string; showNames: boolean } | null> {
 	if (!/^[A-Za-z0-9_-]{20,200}$/.test(token)) return null;
 	const row = await db('study_shares')
 		.where({ token_hash: sha256(token) })
 		.whereNull('revoked_at')
 		.where((q) => q.whereNull('expires_at').orWhere('expires_at', '>', db.fn.now()))
-		.first('study_id');
-	return row?.study_id ?? null;
+		.first('study_id', 'show_names');
+	return row ? { studyId: row.study_id, showNames: row.show_names === true } : null;
 }

@@ -23,7 +23,7 @@
 export type ConcernClass = 'minor' | 'trap' | 'unfaithful';
 
 export interface Concern {
-	code: 'far-from-data' | 'overshoot' | 'split' | 'kink-trap' | 'fails' | 'rings' | 'less-faithful' | 'kinked' | 'stops-early' | 'short-of-reference' | 'not-monotone';
+	code: 'far-from-data' | 'overshoot' | 'split' | 'kink-trap' | 'fails' | 'rings' | 'less-faithful' | 'kinked' | 'stops-early' | 'short-of-reference' | 'not-monotone' | 'outside-data';
 	class: ConcernClass;
 	/** a short phrase in plain words, for the verdict column */
 	text: string;
@@ -43,6 +43,8 @@ export interface VerdictInput {
 	successRate: number;
 	runs: number;
 	atKink: number;
+	/** runs ending outside the data's range (on the extrapolation); absent counts as 0 */
+	outsideData?: number;
 	reachesReference: boolean | null;
 	continuity: { declared: string; measured: string | null };
 	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; spuriousExtrema: number | null } | null;
@@ -116,6 +118,9 @@ export function verdict(r: VerdictInput): Verdict {
 	else if (r.successRate < THRESHOLDS.stops && r.successRate >= THRESHOLDS.fails && !concerns.some((c) => c.code === 'kink-trap'))
 		concerns.push({ code: 'stops-early', class: 'minor', text: `${pct(1 - r.successRate)} of runs stop before converging` });
 
+	if ((r.outsideData ?? 0) > 0)
+		concerns.push({ code: 'outside-data', class: 'trap', text: `${r.outsideData} of ${r.runs} runs end outside the data, on the fit's extrapolation` });
+
 	if (spurious > 0 || (overRel !== null && overRel > THRESHOLDS.overshootNote && overRel <= THRESHOLDS.overshootFar))
 		concerns.push({
 			code: 'rings',
@@ -141,6 +146,7 @@ function headline(concerns: Concern[], worst: ConcernClass | null): string {
 		if (has('split') && has('kink-trap')) return 'kinks trap the optimizer; optima split';
 		if (has('split')) return 'optima split: the answer depends on the start';
 		if (has('kink-trap')) return 'kinks trap the optimizer';
+		if (has('outside-data')) return 'runs end outside the data';
 		return 'the optimizer rarely converges';
 	}
 	if (has('rings')) return 'converges but rings';

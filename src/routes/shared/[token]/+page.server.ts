@@ -10,5 +10,6 @@ export const load = (async ({ params, setHeaders }) => {
 	const study = await sharedStudy(params.token);
 	setHeaders({ 'referrer-policy': 'no-referrer', 'cache-control': 'no-store' });
 	const page = await studyPage(db(), study);
-	return { ...page, study: { ...page.study, createdBy: null }, token: params.token, caution: CAUTION, rankRule: RANK_RULE };
+	// member names are already removed by sharedStudy unless the owner chose to show them
+	return { ...page, token: params.token, caution: CAUTION, rankRule: RANK_RULE };
 }) satisfies PageServerLoad;

@@ -2,11 +2,12 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { CAUTION } from '$lib/caution';
 import { roleAtLeast } from '$lib/server/access';
+import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { formAction } from '$lib/server/forms';
 import { studyAccess } from '$lib/server/studies/access';
 import { cancelStudy, pickFit } from '$lib/server/studies/actions';
-import { pickSchema, shareSchema } from '$lib/server/studies/schema';
+import { pickSchema, shareNamesSchema, shareSchema } from '$lib/server/studies/schema';
 import { RANK_RULE } from '$lib/server/studies/scorecard';
 import * as studies from '$lib/server/studies/store';
 import { studyPage } from '$lib/server/studies/view';
@@ -48,9 +49,16 @@ export const actions = {
 	},
 	share: async ({ request, locals, params, url }) => {
 		const { study, access } = await open(locals, params, 'owner');
-		return formAction(request, shareSchema, async ({ expiresInDays }) => {
-			const { token } = await studies.createShare(db(), study.id, access.user.id, expiresInDays);
+		return formAction(request, shareSchema, async ({ expiresInDays, showNames }) => {
+			const { token } = await studies.createShare(db(), study.id, access.user.id, expiresInDays, showNames ?? false);
 			return { shareUrl: `${url.origin}/shared/${token}` };
+		});
+	},
+	shareNames: async ({ request, locals, params }) => {
+		const { study } = await open(locals, params, 'owner');
+		return formAction(request, shareNamesSchema, async ({ showNames }) => {
+			if (!(await studies.setShareNames(db(), study.id, showNames))) fail4xx(404, 'this study has no live share link; create one first', 'no-share');
+			return { shareNames: showNames };
 		});
 	},
 	unshare: async ({ request, locals, params }) => {

@@ -8,7 +8,7 @@ import * as datasetStore from '$lib/server/datasetStore';
 import { formAction } from '$lib/server/forms';
 import { queueReady } from '$lib/server/studies/app';
 import { StudyRejected, launchStudy } from '$lib/server/studies/launch';
-import { BUDGET_LIMITS, DEFAULT_BUDGETS, FIT_METHODS, FORM_FIT_OPTIONS, MAX_STARTS, OPTIMIZER_NAMES, studyFormSchema } from '$lib/server/studies/schema';
+import { BUDGET_LIMITS, DEFAULT_BUDGETS, CURVE_FIT_METHODS, FORM_FIT_OPTIONS, MAX_STARTS, OPTIMIZER_NAMES, studyFormSchema } from '$lib/server/studies/schema';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals, params, url }) => {
@@ -19,7 +19,7 @@ export const load = (async ({ locals, params, url }) => {
 		workspace: { slug: workspace.slug, name: workspace.name },
 		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, columns: d.columns, description: d.description })),
 		preselect: url.searchParams.get('dataset'),
-		fits: FIT_METHODS.map((m) => ({ method: m, continuity: curveMethods[m].continuity, options: (FORM_FIT_OPTIONS as Record<string, readonly { field: string; label: string; placeholder: string }[]>)[m] ?? [] })),
+		fits: CURVE_FIT_METHODS.map((m) => ({ method: m, continuity: curveMethods[m].continuity, options: (FORM_FIT_OPTIONS as Record<string, readonly { field: string; label: string; placeholder: string }[]>)[m] ?? [] })),
 		optimizers: OPTIMIZER_NAMES,
 		limits: { starts: MAX_STARTS, budgets: BUDGET_LIMITS, defaults: DEFAULT_BUDGETS }
 	};

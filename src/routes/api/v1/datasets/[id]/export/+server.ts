@@ -1,5 +1,5 @@
 import type { RequestEvent, RequestHandler } from './$types';
-import { api, fail4xx } from '$lib/server/api';
+import { api, fail4xx, requireJsonType } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { datasetAccess } from '$lib/server/datasetAccess';
 import * as datasetStore from '$lib/server/datasetStore';
@@ -56,6 +56,7 @@ export const GET = api<RequestHandler>(async (event) => exportPreview(event, fro
 
 /** The same with `{ output, method, options?, format? }` as a JSON body. */
 export const POST = api<RequestHandler>(async (event) => {
+	requireJsonType(event.request);
 	let body: unknown;
 	try {
 		body = await event.request.json();

@@ -20,9 +20,9 @@ export const POST = api<RequestHandler>(async (event) => {
 	const input = await readJson(event, studyInputSchema);
 	const workers = await queueReady();
 	try {
-		const { id, status } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: event.url.origin, input, buildFits: buildFitsOnThread });
+		const { id, status, warnings } = await launchStudy(db(), { workspaceId: workspace.id, userId: user.id, origin: event.url.origin, input, buildFits: buildFitsOnThread });
 		workers.wake();
-		return json({ id, status }, { status: 202, headers: { location: `/api/v1/studies/${id}` } });
+		return json({ id, status, warnings }, { status: 202, headers: { location: `/api/v1/studies/${id}` } });
 	} catch (e) {
 		if (e instanceof StudyRejected) fail4xx(422, `the study cannot run: ${e.message}`, 'invalid', e.details);
 		throw e;
