@@ -3,7 +3,6 @@
  * dense samples) and the fits a study launch builds. Pure computation on
  * arrays, answering plain data (never throwing for a user's mistake), so the
  * same code runs on a thread and, for the seed and benchmarks, in-process.
- * Relative imports only (loaded by worker threads through tsx).
  */
 import type { FitPreview } from '../../fitMethods';
 import { auditFidelity } from '../../numerics/audit/fidelity';

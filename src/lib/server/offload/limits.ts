@@ -2,7 +2,7 @@
  * Cost limits of fit building, in one place. Every fit preview and every fit a
  * study launch builds runs on an offload thread (never on the request thread) within
  * a time budget; methods whose cost or meaning breaks down past a size are
- * refused up front with the reason. Relative imports only (loaded by threads).
+ * refused up front with the reason.
  */
 import type { CurveMethod } from '../../numerics/fits/types';
 

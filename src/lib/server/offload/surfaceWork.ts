@@ -2,7 +2,7 @@
  * Fit work for tables of two or more inputs (grids and scattered points), run
  * on an offload thread like the curve work in fitWork.ts: build the fits a
  * study launch needs, as fit files. Answers plain data and never throws for a
- * user's mistake. Relative imports only (loaded by worker threads through tsx).
+ * user's mistake.
  */
 import { classifyTable } from '../../numerics/fits/classifyTable';
 import { FitError } from '../../numerics/fits/FitError';

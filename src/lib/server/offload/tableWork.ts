@@ -2,7 +2,7 @@
  * Reading an uploaded table (CSV, TSV, XLSX) on an offload thread, answered as
  * plain data: the parsed table, or the DatasetError's parts. The thread's heap
  * is capped (PARSE_HEAP_MB), so a workbook that lies about its expanded size
- * kills that thread, not the server. Relative imports only.
+ * kills that thread, not the server.
  */
 import { DatasetError, type DatasetErrorCode } from '../datasets/DatasetError';
 import { parseTable, type ParseInput } from '../datasets/parseTable';

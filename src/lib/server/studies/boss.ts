@@ -7,7 +7,6 @@
  * Jobs are inserted with the caller's Knex transaction (pg-boss accepts any
  * `{ executeSql }`), so a study and its jobs, or a batch of runs and its
  * follow-up jobs, commit together or not at all.
- * Relative imports only (scripts and worker threads load this through tsx).
  */
 import PgBoss from 'pg-boss';
 import type { Knex } from 'knex';

@@ -3,7 +3,6 @@
  * schema can see), build every fit once to catch bad options now rather than
  * in a worker, then store the study, its fits and all its jobs in one
  * transaction. Nothing is stored when any check fails.
- * Relative imports only (the benchmark and tests load this through tsx).
  */
 import type { Knex } from 'knex';
 import { fitFromJSON, isCurveMethod } from '../../numerics/fits/fitCurve';

@@ -5,7 +5,6 @@
  * `other output ≤ / ≥ / = value` from fits of those outputs made with the
  * same method; and kinkAt from the fit's knots where f′ jumps (measured by the
  * smoothness audit, not assumed from the method).
- * Relative imports only (worker threads load this through tsx).
  */
 import { auditSmoothness } from '../../numerics/audit/smoothness';
 import type { CurveFit } from '../../numerics/fits/types';

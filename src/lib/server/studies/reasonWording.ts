@@ -7,7 +7,6 @@
  * point sits on one), whether the fit has a measured kink at all, and the
  * fit's knots (an optimum on a data point is a property of the method).
  * The optimizers' math and outcomes are untouched; only wording changes.
- * Relative imports only (worker threads load this through tsx).
  */
 
 export interface ReasonContext {

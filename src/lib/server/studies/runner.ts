@@ -8,7 +8,6 @@
  * or duplicated job stores nothing twice, and the transaction that stores the
  * last run is the one that marks the study done (and queues its e-mail).
  * A retried job first skips the starts already stored.
- * Relative imports only (worker threads load this through tsx).
  */
 import os from 'node:os';
 import type { Knex } from 'knex';

@@ -2,7 +2,6 @@
  * The study request: one zod schema for the JSON route and the new-study form
  * (the form's flat fields are turned into the same shape by `studyFromForm`
  * and then parsed by the same schema, so both get the same messages).
- * Relative imports only: scripts and worker threads load this through tsx.
  */
 import { UUID_PATTERN } from '../../text';
 import { z } from 'zod';

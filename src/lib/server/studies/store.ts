@@ -2,7 +2,6 @@
  * Studies in PostgreSQL: the verbs routes, pages and scripts use. Each takes
  * a `db` handle so the caller owns the transaction; snake_case columns are
  * mapped to camelCase here.
- * Relative imports only (the benchmark loads this through tsx).
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';

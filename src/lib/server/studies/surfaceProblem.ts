@@ -5,7 +5,6 @@
  * value` from fits of those outputs made with the same method; and kinkAt true
  * on a grid line where a partial derivative jumps (measured by the surface
  * smoothness audit, not assumed from the method).
- * Relative imports only (worker threads load this through tsx).
  */
 import { auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
 import { TensorGrid } from '../../numerics/fits/TensorGrid';

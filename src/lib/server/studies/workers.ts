@@ -14,7 +14,6 @@
  *
  * Two light loops on the main thread: "study finished" e-mail, and dead
  * letters (a job out of retries marks its study failed with the error).
- * Relative imports only (scripts load this through tsx).
  */
 import os from 'node:os';
 import path from 'node:path';
