@@ -124,6 +124,8 @@ describe('studies in the browser', () => {
 			await screenshot(page, 'study-running');
 		}
 		await page.getByRole('heading', { name: 'Scorecard' }).waitFor({ timeout: 150_000 });
+		// the last progress event may land just after the scorecard is drawn: the bar must then go
+		await bar.waitFor({ state: 'detached', timeout: 15_000 });
 		await expect(bar.count()).resolves.toBe(0);
 		await page.close();
 	});
