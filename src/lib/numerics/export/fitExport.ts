@@ -29,6 +29,7 @@
  */
 import { FitError } from '../fits/FitError';
 import { fitFromJSON } from '../fits/fitCurve';
+import { fitFileObject } from '../fits/fitFile';
 import type { CurveFit } from '../fits/types';
 
 export const FIT_EXPORT_FORMAT = 'kinkless-fit-export';
@@ -109,16 +110,7 @@ export function fitExportText(doc: FitExport): string {
  * returned as-is; rebuild it with `fitFromJSON` (curves) or `surfaceFromJSON` (surfaces).
  */
 export async function readFitExport(json: unknown): Promise<FitExport> {
-	let v = json;
-	if (typeof v === 'string') {
-		try {
-			v = JSON.parse(v);
-		} catch {
-			throw new FitError('bad-fit-file', 'fit file: not valid JSON');
-		}
-	}
-	if (v == null || typeof v !== 'object' || Array.isArray(v)) throw new FitError('bad-fit-file', 'fit file: expected a JSON object');
-	const d = v as Record<string, unknown>;
+	const d = fitFileObject(json, 'a JSON object');
 	if (d.format !== FIT_EXPORT_FORMAT) throw new FitError('bad-fit-file', `fit file: "format" must be "${FIT_EXPORT_FORMAT}"`);
 	if (d.version !== FIT_EXPORT_VERSION) {
 		throw new FitError(

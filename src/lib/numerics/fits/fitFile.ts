@@ -155,8 +155,11 @@ const METHODS: readonly string[] = [
 const CONTINUITY: readonly string[] = ['C0', 'C1', 'C2', 'Cinf'];
 const EXTRAPOLATION: readonly string[] = ['refuse', 'hold', 'linear', 'extend'];
 
-/** Parse (if a string) and check the common header of a fit file. */
-export function readFitFileHeader(json: unknown): FitFileBase {
+/**
+ * A fit file or export document as an object: parsed when given as text. Every reader
+ * (curve and surface fit files, export documents) starts here, with the same messages.
+ */
+export function fitFileObject(json: unknown, expected = 'an object'): Record<string, unknown> {
 	let v = json;
 	if (typeof v === 'string') {
 		try {
@@ -165,8 +168,13 @@ export function readFitFileHeader(json: unknown): FitFileBase {
 			throw new FitError('bad-fit-file', 'fit file: not valid JSON');
 		}
 	}
-	if (v == null || typeof v !== 'object') throw new FitError('bad-fit-file', 'fit file: expected an object');
-	const f = v as Record<string, unknown>;
+	if (v == null || typeof v !== 'object' || Array.isArray(v)) throw new FitError('bad-fit-file', `fit file: expected ${expected}`);
+	return v as Record<string, unknown>;
+}
+
+/** Parse (if a string) and check the common header of a fit file. */
+export function readFitFileHeader(json: unknown): FitFileBase {
+	const f = fitFileObject(json);
 	if (f.format !== FIT_FILE_FORMAT) throw new FitError('bad-fit-file', `fit file: format must be "${FIT_FILE_FORMAT}"`);
 	if (f.version !== FIT_FILE_VERSION) {
 		throw new FitError('bad-fit-file', `fit file: version ${String(f.version)} is not supported (this reader knows version ${FIT_FILE_VERSION})`);

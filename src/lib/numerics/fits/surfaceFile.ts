@@ -16,7 +16,7 @@
  * each with its own message, then the body's shapes; toJSON → JSON text →
  * surfaceFromJSON is bit-exact (numbers as in ./fitFile.ts).
  */
-import { FIT_FILE_FORMAT, FIT_FILE_VERSION } from './fitFile';
+import { FIT_FILE_FORMAT, FIT_FILE_VERSION, fitFileObject } from './fitFile';
 import { FitError } from './FitError';
 import { isGridMethod } from './fitGrid';
 import { RadialBasis, isScatterMethod } from './RadialBasis';
@@ -33,16 +33,7 @@ export function isSurfaceFitFile(json: unknown): boolean {
 
 /** Rebuild a surface fit, bit for bit, from its fit file (the object or its JSON text). */
 export function surfaceFromJSON(json: unknown): SurfaceFit {
-	let v = json;
-	if (typeof v === 'string') {
-		try {
-			v = JSON.parse(v);
-		} catch {
-			throw new FitError('bad-fit-file', 'fit file: not valid JSON');
-		}
-	}
-	if (v == null || typeof v !== 'object' || Array.isArray(v)) throw new FitError('bad-fit-file', 'fit file: expected an object');
-	const f = v as Record<string, unknown>;
+	const f = fitFileObject(json);
 	if (f.format !== FIT_FILE_FORMAT) throw new FitError('bad-fit-file', `fit file: format must be "${FIT_FILE_FORMAT}"`);
 	if (f.version !== FIT_FILE_VERSION) {
 		throw new FitError('bad-fit-file', `fit file: version ${JSON.stringify(f.version)} is not supported (this reader knows version ${FIT_FILE_VERSION})`);
