@@ -1,7 +1,7 @@
 import { json, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
 import { auth } from '$lib/server/auth';
 import * as apiTokens from '$lib/server/apiTokens';
-import { databaseUnavailable, errorBody, unavailableResponse } from '$lib/server/api';
+import { databaseUnavailable, errorBody, RETRY_AFTER_SECONDS, unavailableResponse } from '$lib/server/api';
 import { controlCharacterIn } from '$lib/text';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
@@ -31,10 +31,9 @@ export const handle: Handle = async ({ event, resolve }) => {
 
 function unavailable(isApi: boolean): Response {
 	if (isApi) return unavailableResponse();
-	const r = unavailableResponse();
 	return new Response('Kinkless cannot reach its database for the moment (it may be restarting). Nothing was changed; reload this page in a few seconds.', {
 		status: 503,
-		headers: { 'content-type': 'text/plain; charset=utf-8', 'retry-after': r.headers.get('retry-after')! }
+		headers: { 'content-type': 'text/plain; charset=utf-8', 'retry-after': String(RETRY_AFTER_SECONDS) }
 	});
 }
 

@@ -64,8 +64,8 @@ export type SignInGate = {
 
 /**
  * Decide whether a sign-in attempt for `email` from `address` may check the password.
- * `deviceToken` is the browser's device cookie, if any; `deviceUserId` the account it
- * belongs to (looked up by the caller), which must be the account signing in.
+ * `device` is the browser's device cookie and the account it belongs to (deviceOwner),
+ * if any; it earns trust only when that account is `userId`, the one signing in.
  */
 export async function gateSignIn(db: Db, email: string, address: string, device: { token: string; userId: string } | null, userId: string | null): Promise<SignInGate> {
 	const l = limits();
