@@ -19,6 +19,9 @@ export const failedQueue = (q: string) => `${q}-failed`;
 /** retries of a study job before its study is marked failed */
 export const RETRY_LIMIT = 3;
 export const RETRY_DELAY_SECONDS = 2;
+/** retries of a "study finished" e-mail, with doubling delays from 10 s (about 11 hours in all) */
+export const MAIL_RETRY_LIMIT = 12;
+export const MAIL_RETRY_SECONDS = 10;
 /** how often some live pg-boss instance looks for expired (abandoned) jobs */
 export const MAINTENANCE_SECONDS = Number(process.env.KINKLESS_QUEUE_MAINTENANCE_SECONDS ?? 10);
 
@@ -61,7 +64,6 @@ export async function startBoss(connectionString: string, queue = queueName(), o
 
 export async function ensureQueues(boss: PgBoss, queue: string): Promise<void> {
 	await boss.createQueue(failedQueue(queue), { name: failedQueue(queue), retryLimit: 5, retryDelay: 5 });
-	// retries as mailJob sets them (jobs.ts); these are the queue's defaults
-	await boss.createQueue(mailQueue(queue), { name: mailQueue(queue), retryLimit: 12, retryDelay: 10, retryBackoff: true });
+	await boss.createQueue(mailQueue(queue), { name: mailQueue(queue), retryLimit: MAIL_RETRY_LIMIT, retryDelay: MAIL_RETRY_SECONDS, retryBackoff: true });
 	await boss.createQueue(queue, { name: queue, retryLimit: RETRY_LIMIT, retryDelay: RETRY_DELAY_SECONDS, deadLetter: failedQueue(queue) });
 }

@@ -3,7 +3,7 @@
  * the queue treats its worker as dead and hands the job to another.
  */
 import type PgBoss from 'pg-boss';
-import { RETRY_DELAY_SECONDS, RETRY_LIMIT, failedQueue, mailQueue } from './boss';
+import { MAIL_RETRY_LIMIT, MAIL_RETRY_SECONDS, RETRY_DELAY_SECONDS, RETRY_LIMIT, failedQueue, mailQueue } from './boss';
 
 export type StudyJob =
 	| { kind: 'audit'; studyId: string; fitId: string }
@@ -38,8 +38,7 @@ export function auditJob(queue: string, data: Extract<StudyJob, { kind: 'audit' 
  * in all), so an SMTP outage delays it rather than losing it. The SMTP timeouts
  * (mail.ts) are well inside the job's expiry, so a hanging server counts as a failure.
  */
-export const MAIL_RETRY_LIMIT = 12;
-export const mailRetrySeconds = () => Number(process.env.KINKLESS_MAIL_RETRY_SECONDS ?? 10);
+export const mailRetrySeconds = () => Number(process.env.KINKLESS_MAIL_RETRY_SECONDS ?? MAIL_RETRY_SECONDS);
 
 export function mailJob(queue: string, data: MailJob): PgBoss.JobInsert {
 	return { name: mailQueue(queue), data, retryLimit: MAIL_RETRY_LIMIT, retryDelay: mailRetrySeconds(), retryBackoff: true, expireInSeconds: 120 };
