@@ -87,6 +87,16 @@ describe('the time budget', () => {
 		const { base, stop } = await secondServer({ KINKLESS_WORKERS: '0', KINKLESS_FIT_BUDGET_MS: '300' });
 		try {
 			const cookie = [...t.viewer.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
+			// Warm the new server first: its route modules load on first use and its fit
+			// thread starts on the first preview. The 100 ms target is for a running server
+			// under load, not for a cold start, so one small preview and a few probes go first.
+			const warm = await fetch(`${base}/api/v1/datasets/${mediumId}/fit-preview`, {
+				method: 'POST',
+				headers: { cookie, 'content-type': 'application/json', origin: base },
+				body: JSON.stringify({ output: 'torque', method: 'linear' })
+			});
+			expect(warm.status).toBe(200);
+			for (let i = 0; i < 3; i++) expect((await fetch(`${base}/api/health`)).status).toBe(200);
 			const req = fetch(`${base}/api/v1/datasets/${bigId}/fit-preview`, {
 				method: 'POST',
 				headers: { cookie, 'content-type': 'application/json', origin: base },
@@ -98,6 +108,7 @@ describe('the time budget', () => {
 			expect(body.error.code).toBe('over-budget');
 			expect(body.error.message).toMatch(/did not finish within its 300 ms budget \(the limit for one fit preview\)/);
 			expect(body.error.message).toMatch(/150,000 rows/);
+			console.log(`health during an over-budget preview: ${latencies.length} probes, p95 ${quantile(latencies, 0.95).toFixed(1)} ms, max ${Math.max(...latencies).toFixed(1)} ms`);
 			expect(quantile(latencies, 0.95)).toBeLessThan(100);
 			// the pool replaced the stopped thread: a small preview still works
 			const ok = await fetch(`${base}/api/v1/datasets/${mediumId}/fit-preview`, {

@@ -125,12 +125,27 @@ export async function get(db: Db, id: string): Promise<DatasetMeta | null> {
 }
 
 /** Metadata plus the numbers, one Float64Array per column in column order. */
+/**
+ * The stored numbers are read in pieces of this many bytes. The driver decodes a
+ * bytea value on the request thread (hex text to bytes); a 150,000-row table in one
+ * piece held that thread for 35 ms (over 150 ms on a loaded machine), so big tables
+ * come in pieces with the event loop free between them.
+ */
+export const DATA_PIECE_BYTES = 256 * 1024;
+
 export async function getWithData(db: Db, id: string): Promise<(DatasetMeta & { data: Float64Array[] }) | null> {
 	if (!isUuid(id)) return null;
-	const row = await db('datasets').where({ id }).first([...META_COLUMNS, 'data']);
+	const row = await db('datasets').where({ id }).first([...META_COLUMNS, db.raw('octet_length(data)::int as data_bytes')]);
 	if (!row) return null;
 	const meta = toMeta(row);
-	return { ...meta, data: unpackColumns(row.data, meta.columns.length, meta.rowCount) };
+	const total: number = row.data_bytes;
+	const bytes = Buffer.alloc(total);
+	// a dataset's numbers never change once stored (a change is a new version), so pieces read apart fit together
+	for (let at = 0; at < total; at += DATA_PIECE_BYTES) {
+		const piece = await db('datasets').where({ id }).first(db.raw('substring(data from ? for ?) as piece', [at + 1, DATA_PIECE_BYTES]));
+		(piece.piece as Buffer).copy(bytes, at);
+	}
+	return { ...meta, data: unpackColumns(bytes, meta.columns.length, meta.rowCount) };
 }
 
 export async function listForWorkspace(db: Db, workspaceId: string, includeArchived = false): Promise<DatasetMeta[]> {
