@@ -1,4 +1,6 @@
+import JSZip from 'jszip';
 import { describe, expect, test } from 'vitest';
+import { columnLetter } from '../../../src/lib/server/datasets/parseWorkbook';
 import { parseTable } from '../../../src/lib/server/datasets/parseTable';
 import { validateTable } from '../../../src/lib/server/datasets/validateTable';
 import { expectDatasetError, workbookBytes } from './helpers';
@@ -123,7 +125,8 @@ describe('parseTable: XLSX', () => {
 		});
 		const report = validateTable(await parseTable({ bytes, filename: 'prop.xlsx' }));
 		expect(report.errors).toEqual([
-			{ code: 'non-numeric', row: 3, column: 'eta', value: '#DIV/0!', message: 'row 3, column "eta": "#DIV/0!" is not a number' }
+			// the streaming reader keeps that the saved value is an error, not which one
+			{ code: 'non-numeric', row: 3, column: 'eta', value: 'an error (=1/0)', message: 'row 3, column "eta": "an error (=1/0)" is not a number' }
 		]);
 	});
 
@@ -146,5 +149,60 @@ describe('parseTable: XLSX', () => {
 	test('a damaged workbook', async () => {
 		const bytes = (await severalSheets()).slice(0, 200);
 		await expectDatasetError(parseTable({ bytes, filename: 'broken.xlsx' }), 'unreadable-workbook', 'could not be read as an XLSX workbook');
+	});
+});
+
+/**
+ * A one-sheet workbook whose sheet XML is written by hand: a header row x, y and
+ * `rows` numeric rows (with cell addresses unless `addressed` is false), with extra
+ * cells from `extra`. `lie` rewrites every size its ZIP directory declares to 1 KB.
+ */
+async function handWrittenSheet(rows: number, { addressed = true, lie = false, extra = '' } = {}): Promise<Uint8Array> {
+	const zip = await JSZip.loadAsync(await workbookBytes((wb) => wb.addWorksheet('Sweep').addRow(['x', 'y'])));
+	const body: string[] = ['<?xml version="1.0" encoding="UTF-8" standalone="yes"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'];
+	body.push('<row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>');
+	for (let i = 2; i <= rows + 1; i++) body.push(addressed ? `<row r="${i}"><c r="A${i}"><v>${i}</v></c><c r="B${i}"><v>2.5</v></c></row>` : '<row><c><v>1.5</v></c><c><v>2.5</v></c></row>');
+	body.push(extra, '</sheetData></worksheet>');
+	zip.file('xl/worksheets/sheet1.xml', body.join(''));
+	const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 9 } });
+	if (lie) {
+		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+		for (let i = 0; i + 46 < bytes.byteLength; i++) if (view.getUint32(i, true) === 0x02014b50) view.setUint32(i + 24, 1024, true);
+	}
+	return bytes;
+}
+
+describe('parseTable: XLSX read as a stream, stopping at the limits', () => {
+	test('a workbook that lies about its sizes is stopped at the row limit as it is reached', async () => {
+		// 1,000,010 data rows: over the limit of 1,000,000 (+ header and units rows), declared as 1 KB
+		const bytes = await handWrittenSheet(1_000_010, { lie: true });
+		await expectDatasetError(parseTable({ bytes, filename: 'liar.xlsx' }), 'too-many-rows', 'more than 1,000,000 rows', 'the limit is 1,000,000 rows');
+	}, 120_000);
+
+	test('a stray cell far to the right stops reading and is named', async () => {
+		const bytes = await handWrittenSheet(3, { extra: '<row r="9"><c r="XFD9"><v>7</v></c></row>' });
+		const e = await expectDatasetError(parseTable({ bytes, filename: 'far.xlsx' }), 'too-many-columns', 'cell XFD9 on sheet "Sweep" lies beyond column IV');
+		expect(e.details).toEqual([{ row: 9, column: 'XFD', problem: 'beyond column IV' }]);
+	});
+
+	test('a 33rd used column stops reading at the column limit', async () => {
+		const cells = Array.from({ length: 33 }, (_, j) => `<c r="${columnLetter(j + 2)}5"><v>${j}</v></c>`).join('');
+		const bytes = await handWrittenSheet(3, { extra: `<row r="5">${cells}</row>` });
+		await expectDatasetError(parseTable({ bytes, filename: 'wide.xlsx' }), 'too-many-columns', 'table has more than 32 columns; the limit is 32 columns');
+	});
+
+	test('empty columns between used ones are dropped and named, with their letters', async () => {
+		const bytes = await handWrittenSheet(3, { extra: '<row r="20"><c r="A20"><v>9</v></c><c r="B20"><v>1</v></c><c r="F20"><v>4</v></c></row>' });
+		const parsed = await parseTable({ bytes, filename: 'gap.xlsx' });
+		// F has no header cell, so it gets the usual placeholder name for its position
+		expect(parsed.columns.map((c) => c.name)).toEqual(['x', 'y', 'col3']);
+		expect(parsed.rows[3]).toEqual([9, 1, 4]);
+		expect(parsed.rowNumbers).toEqual([2, 3, 4, 20]);
+		expect(parsed.notes).toContain('ignored empty columns: column C, column D, column E');
+	});
+
+	test('cells without addresses (allowed by OOXML, not by this reader) get a plain message, not the reader’s', async () => {
+		const bytes = await handWrittenSheet(5, { addressed: false });
+		await expectDatasetError(parseTable({ bytes, filename: 'bare.xlsx' }), 'unreadable-workbook', 'such as cells without an address');
 	});
 });

@@ -38,8 +38,10 @@ export function tooManyRows(count: number | undefined, max = MAX_ROWS): DatasetE
 	return new DatasetError('too-many-rows', `table has ${what} rows; the limit is ${formatCount(max)} rows`);
 }
 
-export function tooManyColumns(count: number, max = MAX_COLUMNS): DatasetError {
-	return new DatasetError('too-many-columns', `table has ${count} columns; the limit is ${max} columns`);
+/** `count` undefined means "reading stopped past the limit". */
+export function tooManyColumns(count: number | undefined, max = MAX_COLUMNS): DatasetError {
+	const what = count === undefined ? `more than ${max}` : String(count);
+	return new DatasetError('too-many-columns', `table has ${what} columns; the limit is ${max} columns`);
 }
 
 export function expandsTooFar(size: number, max = MAX_EXPANDED_BYTES): DatasetError {
