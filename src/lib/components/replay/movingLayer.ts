@@ -80,7 +80,8 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 	const draw = () => {
 		for (const p of parts) {
 			const n = p.px.length;
-			if (!n || !Number.isFinite(p.px[0])) {
+			// not on the clock yet (its lengths are set right after the charts are built): nothing to draw
+			if (!n || !Number.isFinite(p.px[0]) || p.t.clockIndex >= clock.lengths.length) {
 				p.markEl.setAttribute('d', '');
 				continue;
 			}
