@@ -67,8 +67,9 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 		marker.append(el('path', { d: 'M0,0L10,5L0,10Z', fill: colour }));
 		defs.append(marker);
 		const ruleEl = rule ? el('line', { stroke: colour, 'stroke-width': 1, 'stroke-dasharray': '3 3', 'stroke-opacity': 0.7, y1: top, y2: bottom }) : null;
-		const trailEl = trail ? el('path', { fill: 'none', stroke: colour, 'stroke-width': 1.6, 'stroke-dasharray': t.style.dash, 'stroke-opacity': 0.85 }) : null;
-		const dotsEl = trail ? el('path', { fill: colour, 'fill-opacity': 0.55, stroke: 'none' }) : null;
+		// the trail is thin and solid with a dot per iterate, so it never reads as the (dashed) fitted curve beside it
+		const trailEl = trail ? el('path', { fill: 'none', stroke: colour, 'stroke-width': 1.1, 'stroke-opacity': 0.6 }) : null;
+		const dotsEl = trail ? el('path', { fill: colour, 'fill-opacity': 0.7, stroke: 'white', 'stroke-width': 0.6 }) : null;
 		const arrowEl = arrow ? el('line', { stroke: colour, 'stroke-width': 1.8, 'marker-end': `url(#${id}-a${i})` }) : null;
 		const markEl = el('path', { fill: colour, stroke: 'white', 'stroke-width': 1.5 });
 		for (const e of [ruleEl, trailEl, dotsEl, arrowEl, markEl]) if (e) g.append(e);
@@ -98,7 +99,7 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 				let d = `M${f1(p.px[0])},${f1(p.py[0])}`;
 				let dots = '';
 				for (let i = 1; i <= k; i++) d += `L${f1(p.px[i])},${f1(p.py[i])}`;
-				for (let i = 0; i < k; i++) dots += `M${f1(p.px[i] - 2)},${f1(p.py[i])}a2,2 0 1,0 4,0a2,2 0 1,0 -4,0`;
+				for (let i = 0; i < k; i++) dots += `M${f1(p.px[i] - 2.5)},${f1(p.py[i])}a2.5,2.5 0 1,0 5,0a2.5,2.5 0 1,0 -5,0`;
 				if (frac > 0) d += `L${f1(cx)},${f1(cy)}`;
 				p.trailEl.setAttribute('d', d);
 				p.dotsEl.setAttribute('d', dots);
