@@ -216,25 +216,21 @@ try {
 		for (let i = 0; i < 3; i++) await page.click('button[aria-label="Faster (])"]');
 		if ((await page.textContent('[data-testid="replay-speed"]')) !== '8×') throw new Error('the replay is not at 8×');
 		await page.click('[data-testid="replay-play"]');
-		const measured = await page.evaluate(
-			() =>
-				new Promise<{ frames: number; ms: number; first: string; lastFrame: string; worst: number }>((resolve) => {
-					const counter = document.querySelector('[data-testid="replay-frame"]')!;
-					const first = counter.textContent ?? '';
-					let frames = 0;
-					let worst = 0;
-					let prev = 0;
-					const t0 = performance.now();
-					const tick = (now: number) => {
-						if (prev) worst = Math.max(worst, now - prev);
-						prev = now;
-						frames++;
-						if (now - t0 < 4000) requestAnimationFrame(tick);
-						else resolve({ frames, ms: now - t0, first, lastFrame: counter.textContent ?? '', worst });
-					};
-					requestAnimationFrame(tick);
-				})
-		);
+		// a string, not a function: tsx would wrap a function's inner names in a helper the page does not have
+		const measured = (await page.evaluate(`new Promise((resolve) => {
+			const counter = document.querySelector('[data-testid="replay-frame"]');
+			const first = counter.textContent;
+			let frames = 0, worst = 0, prev = 0;
+			const t0 = performance.now();
+			const tick = (now) => {
+				if (prev) worst = Math.max(worst, now - prev);
+				prev = now;
+				frames++;
+				if (now - t0 < 4000) requestAnimationFrame(tick);
+				else resolve({ frames, ms: now - t0, first, lastFrame: counter.textContent, worst });
+			};
+			requestAnimationFrame(tick);
+		})`)) as { frames: number; ms: number; first: string; lastFrame: string; worst: number };
 		if (measured.first === measured.lastFrame) throw new Error('the replay did not move while it was measured');
 		fps = (measured.frames / measured.ms) * 1000;
 		console.log(
