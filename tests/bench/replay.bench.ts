@@ -78,10 +78,10 @@ try {
 	const { default: knex } = await import('knex');
 	const { default: pg } = await import('pg');
 	const { default: config } = await import('../../knexfile');
-	const datasetStore = await import('../../src/lib/server/datasetStore');
+	const datasetStore = await import('../../src/lib/server/datasets/store');
 	const { launchStudy } = await import('../../src/lib/server/studies/launch');
-	const { runStudyJob } = await import('../../src/lib/server/studies/runner');
-	const { studyInputSchema } = await import('../../src/lib/server/studies/schema');
+	const { runStudyJob } = await import('../../src/lib/server/studies/queue/runner');
+	const { studyInputSchema } = await import('../../src/lib/server/studies/launchRequest');
 	pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
 	const db = knex({ ...config, connection: databaseUrl });
 	const ws = await db('workspaces').where({ slug: DEMO_WORKSPACE }).first('id', 'slug');
