@@ -49,8 +49,8 @@ async function expectTheStory(page: Page) {
 	await expect(linear.getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+stalled at a kink/);
 	await expect(linear.getByTestId('panel-kink').textContent()).resolves.toMatch(/stalled on the knot J = 0\.9: f′ jumps from 0\.15 to -0\.3/);
 	// the knot is drawn on the chart, with the one-sided slopes
-	await expect(linear.locator('[aria-label="stalled knot"]').count()).resolves.toBe(1);
-	await expect(linear.locator('[aria-label="one-sided slopes"]').count()).resolves.toBe(1);
+	await expect(linear.locator('[aria-description="stalled knot"]').count()).resolves.toBe(1);
+	await expect(linear.locator('[aria-description="one-sided slopes"]').count()).resolves.toBe(1);
 	for (const fit of ['akima', 'pchip']) {
 		await expect(panel(page, fit).getAttribute('data-ended')).resolves.toBe('true');
 		await expect(panel(page, fit).getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+converged/);
