@@ -4,13 +4,15 @@
 // to the end with the keyboard, sees linear end stalled on a marked knot and
 // Akima converged, opens f″, and opens the same replay signed out through a
 // share link. Screenshots at 1440 and 390 px under .data/screenshots/.
-import { mkdirSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
 import { BASE, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
+const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 const tag = randomBytes(4).toString('hex');
 let context: BrowserContext;
 let close: () => Promise<void>;
@@ -56,6 +58,19 @@ async function expectTheStory(page: Page) {
 		await expect(panel(page, fit).getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+converged/);
 	}
 	await expect(page.getByTestId('kink-explanation').first().textContent()).resolves.toMatch(/linear stalls on the knot at J = 0\.9\..*no gradient is zero/);
+}
+
+/** axe-core's contrast rule over the replay, run through the debugging protocol (the page's content policy would refuse an injected script). */
+async function expectContrast(page: Page, what: string) {
+	await page.evaluate(AXE);
+	const violations = await page.evaluate(async () => {
+		// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		const axe = (window as any).axe;
+		const r = await axe.run(document.querySelector('[data-testid="replay"]'), { runOnly: { type: 'rule', values: ['color-contrast'] } });
+		// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		return r.violations.flatMap((v: any) => v.nodes.map((n: any) => `${n.target.join(' ')}: ${n.failureSummary.split('\n').slice(1).join(' ')}`));
+	});
+	expect(violations, `${what}: text below WCAG AA contrast`).toEqual([]);
 }
 
 async function shots(page: Page, name: string) {
@@ -152,11 +167,21 @@ describe('the replay in the browser', () => {
 		await page.getByTestId('replay-d2').locator('svg').first().waitFor();
 		await expect(page.getByTestId('toggle-d2').getAttribute('aria-expanded')).resolves.toBe('true');
 		await expect(page.getByTestId('replay-convergence').locator('svg').count()).resolves.toBeGreaterThanOrEqual(2);
+		await expectContrast(page, 'the replay');
 		await shots(page, 'replay');
 
-		// a scorecard row opens its fit in the replay
+		// a scorecard row opens its fit in the replay, focus on Play so the keys work at once
 		await page.getByTestId('scorecard').getByRole('button', { name: 'Replay akima with sqp' }).click();
 		await expect(panel(page, 'akima').getAttribute('class')).resolves.toMatch(/ring-2/);
+		await expect(page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).resolves.toBe('replay-play');
+		// a runs-table row opens that run: its start, its fit brought forward
+		const other = runs.findIndex((r) => r.method === 'pchip' && r.start[0] !== stall!.start[0]);
+		const row = page.getByTestId('runs').locator('tbody tr').filter({ hasText: 'pchip' }).filter({ hasText: String(Number(runs[other].start[0].toPrecision(4))) });
+		await row.getByTestId('run-replay').click();
+		await expect(page.getByTestId('replay-start').inputValue()).resolves.not.toBe(startValue);
+		await expect(panel(page, 'pchip').getAttribute('class')).resolves.toMatch(/ring-2/);
+		await page.keyboard.press('End');
+		await expect(panel(page, 'pchip').getAttribute('data-ended')).resolves.toBe('true');
 
 		// the same replay signed out, through a share link
 		await page.getByRole('button', { name: 'Make a link' }).click();
@@ -179,6 +204,9 @@ describe('the replay in the browser', () => {
 			expect(asked.length).toBeGreaterThanOrEqual(3);
 			for (const p of asked) expect(p).toMatch(/^\/api\/v1\/shared\/[A-Za-z0-9_-]+\/runs\/[0-9a-f-]{36}\/path$/);
 			await expect(other.getByRole('button', { name: 'Record the pick' }).count()).resolves.toBe(0);
+			// a reader who asks for less motion gets whole steps
+			await other.emulateMedia({ reducedMotion: 'reduce' });
+			await other.getByText('reduced motion: whole steps only').waitFor();
 			await shots(other, 'replay-shared');
 		} finally {
 			await closeStranger();
