@@ -35,7 +35,7 @@ import {
 } from './fitFile';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod, Extrapolation, FitStats, Jet } from './types';
 
-export interface PiecewiseInit {
+interface PiecewiseInit {
 	method: CurveMethod;
 	continuity: Continuity;
 	options: CurveFitOptions;

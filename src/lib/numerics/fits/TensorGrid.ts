@@ -33,7 +33,7 @@ export const GRID_MAX_INPUTS = 4;
 /** Knot slopes of one grid line: writes t_i to out[i] for the line's values y (x strictly increasing). */
 export type LineSlopeRule = (x: Float64Array, y: Float64Array, out: Float64Array) => void;
 
-export interface TensorGridInit {
+interface TensorGridInit {
 	method: GridMethod;
 	/** 'C0' (multilinear), 'C1' or 'C2' along every input */
 	continuity: Continuity;

@@ -39,7 +39,7 @@ import type { Continuity, CurveFitOptions, CurveMethod, Extrapolation, FitStats 
 export const FIT_FILE_FORMAT = 'kinkless-fit';
 export const FIT_FILE_VERSION = 1;
 
-export type EncodedNumber = number | '-0' | 'NaN' | 'Infinity' | '-Infinity';
+type EncodedNumber = number | '-0' | 'NaN' | 'Infinity' | '-Infinity';
 
 export interface FitFileBase {
 	format: typeof FIT_FILE_FORMAT;

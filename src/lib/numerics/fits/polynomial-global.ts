@@ -203,7 +203,7 @@ export class BarycentricPolynomial implements CurveFit {
  * nor underflow for any practical number of points (Berrut & Trefethen §7);
  * a common factor cancels in the formula.
  */
-export function barycentricWeights(x: Float64Array): Float64Array {
+function barycentricWeights(x: Float64Array): Float64Array {
 	const n = x.length;
 	const w = new Float64Array(n);
 	const scale = n > 1 ? 4 / (x[n - 1] - x[0]) : 1;

@@ -18,7 +18,7 @@ export interface PreparedData {
 	notes: string[];
 }
 
-export interface PrepareRules {
+interface PrepareRules {
 	/** the method's name, for messages */
 	label: string;
 	/** fewest distinct points the method needs */

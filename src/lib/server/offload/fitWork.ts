@@ -47,7 +47,7 @@ export type FitProblem =
 	| { kind: 'size'; message: string }
 	| { kind: 'at'; index: number; message: string };
 
-export type PreviewTask = { kind: 'preview'; x: Float64Array; y: Float64Array; method: CurveMethod; options: CurveFitOptions; at?: number[] };
+type PreviewTask = { kind: 'preview'; x: Float64Array; y: Float64Array; method: CurveMethod; options: CurveFitOptions; at?: number[] };
 export type BuildTask = {
 	kind: 'build';
 	x: Float64Array;

@@ -95,7 +95,7 @@ export function optionsFor(spec: StudySpec, optimizer: number): OptimizeOptions 
 	return { ...spec.budgets, ...(spec.optimizers[optimizer]?.options ?? {}) };
 }
 
-export function problemSpec(spec: StudySpec): ProblemSpec {
+function problemSpec(spec: StudySpec): ProblemSpec {
 	return { kind: spec.problem.kind, target: spec.problem.target, bounds: spec.problem.bounds, constraints: spec.problem.constraints };
 }
 
