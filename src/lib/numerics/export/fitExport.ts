@@ -27,7 +27,7 @@
  * Hashing uses the platform's Web Crypto (Node 20 and every current
  * browser), so this module stays framework-free.
  */
-import { FitError } from '../fits/FitError';
+import { FitError } from '../fits/fitError';
 import { fitFromJSON } from '../fits/fitCurve';
 import { fitFileObject } from '../fits/fitFile';
 import type { CurveFit } from '../fits/types';

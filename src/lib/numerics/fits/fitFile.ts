@@ -33,7 +33,7 @@
  * "Infinity", "-Infinity". So toJSON → JSON.stringify → JSON.parse → fromJSON
  * is bit-exact.
  */
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import type { Continuity, CurveFitOptions, CurveMethod, Extrapolation, FitStats } from './types';
 
 export const FIT_FILE_FORMAT = 'kinkless-fit';

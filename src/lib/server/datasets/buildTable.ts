@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 import { controlCharacterIn } from '../../text';
 import { clipForMessage, formatCount, MAX_COLUMN_NAME, MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { parseNumber } from './parseNumber';

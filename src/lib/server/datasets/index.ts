@@ -1,5 +1,5 @@
 export type * from './types';
-export { DatasetError, MAX_ERROR_DETAILS, type DatasetErrorCode } from './DatasetError';
+export { DatasetError, MAX_ERROR_DETAILS, type DatasetErrorCode } from './datasetError';
 export { MAX_FILE_BYTES, MAX_ROWS, MAX_COLUMNS, formatMegabytes } from './limits';
 export { limitBytes } from './limitBytes';
 export { sha256 } from '../tokens';

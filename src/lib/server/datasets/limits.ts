@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 
 export const MAX_FILE_BYTES = 20 * 1024 * 1024;
 export const MAX_ROWS = 1_000_000;

@@ -1,6 +1,6 @@
 import Papa from 'papaparse';
 import { buildTable, type RawRecord } from './buildTable';
-import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
+import { DatasetError, MAX_ERROR_DETAILS } from './datasetError';
 import { clipForMessage, MAX_ROWS } from './limits';
 import { MAX_LISTED_PROBLEMS } from './problemReport';
 import { rowList } from './rowList';

@@ -1,7 +1,7 @@
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { buildTable, type RawRecord } from './buildTable';
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 import { expandsTooFar, MAX_COLUMNS, MAX_EXPANDED_BYTES, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { zipEntrySizes } from './zipSizes';
 import type { Cell, ErrorDetail, ParsedTable } from './types';

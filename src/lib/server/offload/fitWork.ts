@@ -7,7 +7,7 @@
 import type { FitPreview } from '../../fitMethods';
 import { auditFidelity } from '../../numerics/audit/fidelity';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
-import { FitError, type FitErrorCode } from '../../numerics/fits/FitError';
+import { FitError, type FitErrorCode } from '../../numerics/fits/fitError';
 import { fitCurve } from '../../numerics/fits/fitCurve';
 import type { CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { sizeProblem } from './limits';

@@ -6,11 +6,11 @@
  */
 import type { Knex } from 'knex';
 import { fitFromJSON, isCurveMethod } from '../../numerics/fits/fitCurve';
-import type { FitErrorCode } from '../../numerics/fits/FitError';
+import type { FitErrorCode } from '../../numerics/fits/fitError';
 import { isGridMethod } from '../../numerics/fits/fitGrid';
 import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
 import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
-import { GRID_MAX_INPUTS } from '../../numerics/fits/TensorGrid';
+import { GRID_MAX_INPUTS } from '../../numerics/fits/tensorGrid';
 import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { MIN_GRAD_TOL, MIN_TOL } from '../../numerics/optimize/run';

@@ -19,7 +19,7 @@ import type { CurveFit } from '../../../numerics/fits/types';
 import { auditSurfaceSmoothness } from '../../../numerics/audit/surfaceAudit';
 import { surfaceFromJSON } from '../../../numerics/fits/surfaceFile';
 import type { SurfaceFit } from '../../../numerics/fits/surfaceTypes';
-import { TensorGrid } from '../../../numerics/fits/TensorGrid';
+import { TensorGrid } from '../../../numerics/fits/tensorGrid';
 import { surfaceProblem } from '../../../domain/surfaceProblem';
 import { optimize } from '../../../numerics/optimize/optimize';
 import { brokenRun } from '../../../numerics/optimize/run';

@@ -18,7 +18,7 @@
  * limits from inside the data, never from the extrapolation.
  */
 import { polynomialLimit } from '../math';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import {
 	FIT_FILE_FORMAT,
 	FIT_FILE_VERSION,

@@ -21,7 +21,7 @@
  * centre's second-derivative term and say so in the notes.
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, decodeNumber, encodeArray, encodeNumber } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
 import type { Continuity } from './types';

@@ -23,7 +23,7 @@
  * grid-linear is the multilinear interpolant: the same cells with degree 1 in
  * every input and only the corner values.
  */
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, encodeArray } from './fitFile';
 import type { Continuity } from './types';
 import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, SurfaceFitOptions, SurfaceJet } from './surfaceTypes';

@@ -27,7 +27,7 @@
  *
  * C∞, but it rings between points when there are many (Runge's phenomenon).
  */
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import {
 	FIT_FILE_FORMAT,
 	FIT_FILE_VERSION,
@@ -42,7 +42,7 @@ import {
 	readFitFileHeader,
 	type FitFileBase
 } from './fitFile';
-import { invalidPoint, manyBuffers, outsideError, type ManyOut, type ManyResult } from './PiecewisePolynomial';
+import { invalidPoint, manyBuffers, outsideError, type ManyOut, type ManyResult } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod, Extrapolation, FitStats, Jet } from './types';
 

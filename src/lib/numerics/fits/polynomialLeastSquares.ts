@@ -14,7 +14,7 @@
  */
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import { polynomialLimit } from '../math';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import {
 	FIT_FILE_FORMAT,
 	FIT_FILE_VERSION,
@@ -29,7 +29,7 @@ import {
 	readFitFileHeader,
 	type FitFileBase
 } from './fitFile';
-import { invalidPoint, manyBuffers, outsideError, type ManyOut, type ManyResult } from './PiecewisePolynomial';
+import { invalidPoint, manyBuffers, outsideError, type ManyOut, type ManyResult } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod, Extrapolation, FitStats, Jet } from './types';
 
