@@ -188,3 +188,8 @@ export function readFitFileHeader(json: unknown): FitFileBase {
 	if (!Array.isArray(f.notes)) throw new FitError('bad-fit-file', 'fit file: notes must be an array');
 	return f as unknown as FitFileBase;
 }
+
+/** The fields every fit file starts with: format, version, method, continuity and extrapolation rule. */
+export function fitFileEnvelope<M extends string, C extends string, E extends string>(fit: { method: M; continuity: C; extrapolation: E }): { format: typeof FIT_FILE_FORMAT; version: typeof FIT_FILE_VERSION; method: M; continuity: C; extrapolation: E } {
+	return { format: FIT_FILE_FORMAT, version: FIT_FILE_VERSION, method: fit.method, continuity: fit.continuity, extrapolation: fit.extrapolation };
+}

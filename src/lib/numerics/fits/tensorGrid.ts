@@ -24,7 +24,7 @@
  * every input and only the corner values.
  */
 import { FitError } from './fitError';
-import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, encodeArray } from './fitFile';
+import { decodeArray, encodeArray, fitFileEnvelope } from './fitFile';
 import type { Continuity } from './types';
 import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, SurfaceFitOptions, SurfaceJet } from './surfaceTypes';
 
@@ -285,11 +285,7 @@ export class TensorGrid implements SurfaceFit {
 
 	toJSON(): unknown {
 		return {
-			format: FIT_FILE_FORMAT,
-			version: FIT_FILE_VERSION,
-			method: this.method,
-			continuity: this.continuity,
-			extrapolation: this.extrapolation,
+			...fitFileEnvelope(this),
 			domain: this.domain.map((r) => encodeArray(r)),
 			options: { ...this.options },
 			representation: 'tensor-hermite',
