@@ -3,16 +3,8 @@
  * Plain TypeScript: no DOM, server or framework imports.
  */
 
-/** Unit roundoff of IEEE-754 binary64 (2^-52). */
-export const EPSILON = Number.EPSILON;
-/** √ε: the natural relative step for one-sided differences. */
-export const SQRT_EPSILON = Math.sqrt(Number.EPSILON);
-/** ∛ε: the step that balances truncation and rounding in a central difference. */
-export const CBRT_EPSILON = Math.cbrt(Number.EPSILON);
 /** ε^(1/5): the step for a Richardson-extrapolated central difference. */
 export const FIFTH_ROOT_EPSILON = Math.pow(Number.EPSILON, 0.2);
-/** ε^(1/4): the step for a central second difference. */
-export const QRT_EPSILON = Math.sqrt(Math.sqrt(Number.EPSILON));
 
 /**
  * Seeded pseudo-random numbers in [0, 1): Mulberry32 (T. Ettinger, 2017, public domain).

@@ -29,7 +29,7 @@ import type { ParseResult } from '../offload/tableWork';
 
 /** Room for the multipart framing and the small fields that travel with the file. */
 const FORM_OVERHEAD = 1024 * 1024;
-export const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
+const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
 const MAX_DESCRIPTION = 2000;
 const HEAD_ROWS = 8;
 /** Rows with problems the preview shows beside the first rows. */
@@ -38,13 +38,13 @@ const PROBLEM_ROWS = 30;
 const ROLE_ERROR = { error: 'a column role must be "input" or "output"' };
 
 /** The fields that travel with an upload (multipart form or the upload page). */
-export const uploadFieldsSchema = z.object({
+const uploadFieldsSchema = z.object({
 	name: z.string().trim().min(1, 'name cannot be empty').max(MAX_NAME_LENGTH, `name can be at most ${MAX_NAME_LENGTH} characters`).optional(),
 	description: z.string().trim().max(MAX_DESCRIPTION, `description can be at most ${MAX_DESCRIPTION} characters`).optional(),
 	sheet: z.string().trim().min(1).max(100, 'sheet name can be at most 100 characters').optional(),
 	roles: z.record(z.string(), z.enum(['input', 'output'], ROLE_ERROR), { error: 'roles must be an object { "column name": "input" | "output" }' }).optional()
 });
-export type UploadFields = z.infer<typeof uploadFieldsSchema>;
+type UploadFields = z.infer<typeof uploadFieldsSchema>;
 
 export type Source =
 	| { kind: 'file'; bytes: Uint8Array; filename: string; sheet?: string }
@@ -199,7 +199,7 @@ export function defaultName(source: Source): string {
 }
 
 /** The report of a checked table, as the upload page and `?dryRun=1` show it. */
-export interface UploadReport {
+interface UploadReport {
 	ok: boolean;
 	name: string;
 	/** the version saving would create */
@@ -260,7 +260,7 @@ export function rolesFor(parsed: ParsedTable, roles: Record<string, Role> | unde
 	return Object.keys(kept).length ? kept : undefined;
 }
 
-export interface SaveInput {
+interface SaveInput {
 	workspaceId: string;
 	userId: string;
 	name: string;
