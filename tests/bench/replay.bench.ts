@@ -253,8 +253,14 @@ try {
 	console.error(e);
 	exitCode = 1;
 } finally {
-	server?.kill('SIGTERM');
-	await new Promise((r) => setTimeout(r, 500));
+	if (server && server.exitCode === null) {
+		// a graceful stop first; the server waits on its queue, so after 5 s it is killed
+		const exited = new Promise((r) => server!.once('exit', r));
+		server.kill('SIGTERM');
+		const timer = setTimeout(() => server!.kill('SIGKILL'), 5000);
+		await exited;
+		clearTimeout(timer);
+	}
 	cluster.stop();
 	rmSync(dataDir, { recursive: true, force: true });
 }
