@@ -42,3 +42,15 @@ export function polynomialLimit(a: ArrayLike<number>, sign: 1 | -1): number {
 	if (k < 0) return 0;
 	return k === 0 ? a[0] : Math.sign(a[k]) * sign ** k * Infinity;
 }
+
+/**
+ * The array form of a strided slope solver: `fill` writes n values to
+ * buf[2i] with buf[2i + 1] as its scratch; the values come back on their own.
+ */
+export function stridedValues(n: number, fill: (buf: Float64Array) => void): Float64Array {
+	const buf = new Float64Array(2 * n);
+	fill(buf);
+	const t = new Float64Array(n);
+	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
+	return t;
+}

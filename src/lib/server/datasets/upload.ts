@@ -2,6 +2,7 @@
 // read the request body under the size limit, parse it into a table, check it,
 // and store it. Parsing and checking live in ./datasets; storage in ./datasetStore.
 import { z } from 'zod';
+import { concatBytes } from './limitBytes';
 import {
 	DatasetError,
 	MAX_FILE_BYTES,
@@ -92,13 +93,7 @@ export async function readBody(request: Request, max = MAX_UPLOAD_BODY): Promise
 		reader.releaseLock();
 	}
 	if (over) throw tooLarge();
-	const out = new Uint8Array(total);
-	let at = 0;
-	for (const chunk of chunks) {
-		out.set(chunk, at);
-		at += chunk.byteLength;
-	}
-	return out;
+	return concatBytes(chunks, total);
 }
 
 /** A multipart body under the size limit, as FormData. */
