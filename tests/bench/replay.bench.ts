@@ -159,6 +159,15 @@ try {
 		.getSetCookie()
 		.map((c) => c.split(';')[0])
 		.join('; ');
+	// the reference for serve times, measured in the same run: the health check (no session, no data)
+	const healthTimes: number[] = [];
+	for (let i = 0; i < 8; i++) {
+		const t = performance.now();
+		await (await fetch(`${origin}/api/health`)).arrayBuffer();
+		if (i > 0) healthTimes.push(performance.now() - t);
+	}
+	const healthMs = median(healthTimes);
+	console.log(`replay bench: reference: /api/health served in ${healthMs.toFixed(1)} ms (median of 7)`);
 	let benchBytes = Infinity;
 	let benchMs = Infinity;
 	for (const s of studies) {
@@ -179,17 +188,29 @@ try {
 			benchBytes = bytes;
 			benchMs = ms;
 		}
-		console.log(`replay bench: page data "${s.name}" (${s.runs_done.toLocaleString('en-US')} runs): ${(bytes / 1024).toFixed(0)} KiB, served in ${ms.toFixed(0)} ms (median of 7; paths not included)`);
+		console.log(`replay bench: page data "${s.name}" (${s.runs_done.toLocaleString('en-US')} runs): ${(bytes / 1024).toFixed(0)} KiB, served in ${ms.toFixed(0)} ms = ${(ms / healthMs).toFixed(1)}× the health check (median of 7; paths not included)`);
 	}
 
 	// 2. playback in Chromium: 6 panels × 200-iteration paths
 	const { chromium } = await import('playwright-core');
 	const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu', '--disable-background-timer-throttling', '--disable-renderer-backgrounding'] });
 	let fps = 0;
+	let idleFps = 0;
 	try {
 		const context = await browser.newContext({ baseURL: origin, viewport: { width: 1440, height: 1000 } });
 		await context.request.post('/api/v1/session', { data: DEMO });
 		const page = await context.newPage();
+		// the reference for the frame rate, measured in the same browser: an empty page's display frames over 2 s
+		await page.goto('/api/health');
+		idleFps = Number(
+			await page.evaluate(`new Promise((resolve) => {
+				let frames = 0;
+				const t0 = performance.now();
+				const tick = (now) => (++frames, now - t0 < 2000 ? requestAnimationFrame(tick) : resolve((frames / (now - t0)) * 1000));
+				requestAnimationFrame(tick);
+			})`)
+		);
+		console.log(`replay bench: reference: an empty page shows ${idleFps.toFixed(1)} frames/s in this browser`);
 		// the 1,800-run study: from navigation to the first replay panel drawn, in the page's own clock
 		await page.goto(`/w/${ws.slug}/studies/${benchId}`);
 		await page.waitForSelector('[data-testid="replay-panel"] svg', { timeout: 60_000 });
@@ -238,7 +259,7 @@ try {
 		if (measured.first === measured.lastFrame) throw new Error('the replay did not move while it was measured');
 		fps = (measured.frames / measured.ms) * 1000;
 		console.log(
-			`replay bench: playback of ${panels} panels × ${LENGTH}-iteration paths (+ f′, f″ and 2 convergence panels), 8×, loop: ${fps.toFixed(1)} frames/s over ${(measured.ms / 1000).toFixed(1)} s, longest frame ${measured.worst.toFixed(0)} ms`
+			`replay bench: playback of ${panels} panels × ${LENGTH}-iteration paths (+ f′, f″ and 2 convergence panels), 8×, loop: ${fps.toFixed(1)} frames/s = ${(fps / idleFps).toFixed(2)} of the empty page's rate, over ${(measured.ms / 1000).toFixed(1)} s, longest frame ${measured.worst.toFixed(0)} ms`
 		);
 	} finally {
 		await browser.close();
