@@ -9,6 +9,7 @@ import { createRequire } from 'node:module';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
+import { DEMO_EMAIL, DEMO_PASSWORD, DEMO_WORKSPACE } from '../../seeds/01_demo_accounts';
 import { BASE, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
@@ -212,5 +213,34 @@ describe('the replay in the browser', () => {
 			await closeStranger();
 		}
 		await page.close();
+	});
+
+	it('the demo tells the story on first look: minimum drag opens where linear stalls on a knot and the smooth fits converge; a solve shows its target', async () => {
+		const { context: demo, close: closeDemo } = await launch();
+		try {
+			expect((await demo.request.post('/api/v1/session', { data: { email: DEMO_EMAIL, password: DEMO_PASSWORD } })).status()).toBe(200);
+			const { studies } = (await (await demo.request.get(`/api/v1/workspaces/${DEMO_WORKSPACE}/studies`)).json()) as { studies: { id: string; name: string }[] };
+			const page = await demo.newPage();
+			const wing = studies.find((s) => s.name === 'Wing: minimum drag');
+			expect(wing, 'the seeded minimum-drag study').toBeDefined();
+			await page.goto(`/w/${DEMO_WORKSPACE}/studies/${wing!.id}`);
+			// no choice made: the replay opens on its own telling start with the first optimizer
+			await panel(page, 'linear').waitFor();
+			await page.getByRole('button', { name: 'Last iteration (End)' }).click();
+			await expect(panel(page, 'linear').getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+stalled at a kink/);
+			await expect(panel(page, 'linear').locator('[aria-description="stalled knot"]').count()).resolves.toBe(1);
+			for (const fit of ['akima', 'pchip', 'cubic-natural', 'smoothing-spline']) await expect(panel(page, fit).getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+converged/);
+			await shots(page, 'replay-demo-wing');
+
+			const battery = studies.find((s) => /Battery pack/.test(s.name));
+			expect(battery, 'the seeded solve study').toBeDefined();
+			await page.goto(`/w/${DEMO_WORKSPACE}/studies/${battery!.id}`);
+			await panel(page, 'linear').waitFor();
+			await expect(panel(page, 'linear').locator('[aria-description="target"]').count()).resolves.toBe(1);
+			await expect(page.getByTestId('replay-convergence').textContent()).resolves.toContain('Distance from the target');
+			await page.close();
+		} finally {
+			await closeDemo();
+		}
 	});
 });
