@@ -79,6 +79,10 @@ async function shots(page: Page, name: string) {
 	for (const width of [1440, 390]) {
 		await page.setViewportSize({ width, height: 1000 });
 		await page.waitForTimeout(300); // the charts redraw at the new width
+		// tall enough for the whole replay, so the shot is not taken scrolled (the controls stick to the top when scrolled)
+		const box = await page.getByTestId('replay').boundingBox();
+		await page.setViewportSize({ width, height: Math.ceil((box?.height ?? 1000) + 200) });
+		await page.getByTestId('replay').scrollIntoViewIfNeeded();
 		await page.getByTestId('replay').screenshot({ path: `${SHOTS}/${name}-${width}.png` });
 		const wide = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
 		expect(wide, `${name} scrolls sideways at ${width} px`).toBeLessThanOrEqual(0);
