@@ -59,6 +59,8 @@ async function expectTheStory(page: Page) {
 		await expect(panel(page, fit).getByTestId('panel-outcome').textContent()).resolves.toMatch(/ended\s+converged/);
 	}
 	await expect(page.getByTestId('kink-explanation').first().textContent()).resolves.toMatch(/linear stalls on the knot at J = 0\.9\..*no gradient is zero/);
+	// and a screen reader hears it
+	await expect(page.getByTestId('replay-announce').textContent()).resolves.toMatch(/linear ended stalled at a kink; akima ended converged; pchip ended converged/);
 }
 
 /** axe-core's contrast rule over the replay, run through the debugging protocol (the page's content policy would refuse an injected script). */
