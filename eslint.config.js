@@ -34,7 +34,6 @@ export default ts.config(
 	},
 	{
 		files: ['src/lib/server/offload/**/*.ts', 'src/lib/server/studies/**/*.ts', 'src/lib/server/datasets/**/*.ts'],
-		ignores: ['src/lib/server/studies/access.ts'],
 		rules: {
 			'no-restricted-imports': ['error', { patterns: [{ group: ['$lib', '$lib/*', '$app/*', '$env/*'], message: 'code loaded by worker threads uses relative imports only (threads have no $lib alias)' }] }]
 		}

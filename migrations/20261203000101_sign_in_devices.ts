@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 
 // Browsers that have signed in to an account before. A failed guess from any other
-// client never blocks such a browser (see src/lib/server/rateLimit.ts), so a stranger
+// client never blocks such a browser (see src/lib/server/accounts/rateLimit.ts), so a stranger
 // cannot lock the owner out by guessing wrong on purpose.
 export async function up(knex: Knex): Promise<void> {
 	await knex.schema.createTable('sign_in_devices', (t) => {

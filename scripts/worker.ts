@@ -7,8 +7,8 @@ import { fileURLToPath } from 'node:url';
 import knex from 'knex';
 import pg from 'pg';
 import config from '../knexfile';
-import { queueName } from '../src/lib/server/studies/boss';
-import { StudyWorkers, defaultThreads } from '../src/lib/server/studies/workers';
+import { queueName } from '../src/lib/server/studies/queue/boss';
+import { StudyWorkers, defaultThreads } from '../src/lib/server/studies/queue/workers';
 
 pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');

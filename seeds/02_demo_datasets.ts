@@ -4,7 +4,7 @@ import { parseTable } from '../src/lib/server/datasets/parseTable';
 import { sha256 } from '../src/lib/server/datasets/sha256';
 import type { Role } from '../src/lib/server/datasets/types';
 import { validateTable } from '../src/lib/server/datasets/validateTable';
-import { create } from '../src/lib/server/datasetStore';
+import { create } from '../src/lib/server/datasets/store';
 import { DEMO_EMAIL, DEMO_WORKSPACE } from './01_demo_accounts';
 
 // Demo tables for the invented "Larkmoor Aero" electric-aircraft maker. Every

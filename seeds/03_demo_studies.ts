@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { launchStudy } from '../src/lib/server/studies/launch';
-import { runStudyJob } from '../src/lib/server/studies/runner';
-import { studyInputSchema } from '../src/lib/server/studies/schema';
+import { runStudyJob } from '../src/lib/server/studies/queue/runner';
+import { studyInputSchema } from '../src/lib/server/studies/launchRequest';
 import { scorecard } from '../src/lib/server/studies/scorecard';
 import * as store from '../src/lib/server/studies/store';
 import { DEMO_EMAIL, DEMO_WORKSPACE } from './01_demo_accounts';

@@ -1,12 +1,12 @@
 import { json, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
-import { auth } from '$lib/server/auth';
-import * as apiTokens from '$lib/server/apiTokens';
+import { auth } from '$lib/server/accounts/auth';
+import * as apiTokens from '$lib/server/accounts/apiTokens';
 import { databaseUnavailable, errorBody, RETRY_AFTER_SECONDS, unavailableResponse } from '$lib/server/api';
 import { controlCharacterIn } from '$lib/text';
 import { db } from '$lib/server/db';
 import { startCatcher } from '$lib/server/mail';
 import { startOffloadThreads } from '$lib/server/offload/pool';
-import { startStudyWorkers } from '$lib/server/studies/app';
+import { startStudyWorkers } from '$lib/server/studies/queue/appWorkers';
 
 export const init: ServerInit = async () => {
 	await startCatcher();

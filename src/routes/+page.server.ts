@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
 import { workspaceCreateSchema } from '$lib/schemas';
-import { requireUser } from '$lib/server/access';
+import { requireUser } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
 import { formAction } from '$lib/server/forms';
-import * as workspaces from '$lib/server/workspaces';
+import * as workspaces from '$lib/server/workspaces/store';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals }) => {

@@ -50,10 +50,10 @@ try {
 	const { default: knex } = await import('knex');
 	const { default: pg } = await import('pg');
 	const { default: config } = await import('../../knexfile');
-	const datasetStore = await import('../../src/lib/server/datasetStore');
+	const datasetStore = await import('../../src/lib/server/datasets/store');
 	const { launchStudy } = await import('../../src/lib/server/studies/launch');
-	const { StudyWorkers, defaultThreads } = await import('../../src/lib/server/studies/workers');
-	const { studyInputSchema } = await import('../../src/lib/server/studies/schema');
+	const { StudyWorkers, defaultThreads } = await import('../../src/lib/server/studies/queue/workers');
+	const { studyInputSchema } = await import('../../src/lib/server/studies/launchRequest');
 	const store = await import('../../src/lib/server/studies/store');
 	const { studyPage } = await import('../../src/lib/server/studies/view');
 	const devalue = await import('devalue');

@@ -23,7 +23,7 @@ import type { GridMethod, SurfaceFit } from '../../src/lib/numerics/fits';
 import { optimize } from '../../src/lib/numerics/optimize';
 import { latinHypercubeStarts } from '../../src/lib/numerics/optimize/starts';
 import { mulberry32 } from '../../src/lib/numerics/math';
-import { surfaceProblem } from '../../src/lib/server/studies/surfaceProblem';
+import { surfaceProblem } from '../../src/lib/domain/surfaceProblem';
 
 const REPS = Number(process.env.BENCH_REPS ?? 3);
 const rnd = mulberry32(2026);

@@ -5,9 +5,9 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import type PgBoss from 'pg-boss';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startBoss } from '../../src/lib/server/studies/boss';
+import { startBoss } from '../../src/lib/server/studies/queue/boss';
 import { launchStudy } from '../../src/lib/server/studies/launch';
-import { studyInputSchema } from '../../src/lib/server/studies/schema';
+import { studyInputSchema } from '../../src/lib/server/studies/launchRequest';
 import { caughtMail, json, testDb } from './client';
 import { dataset, launch, team, waitFor, type ErrorBody } from './studiesFixtures';
 

@@ -1,7 +1,8 @@
 /**
  * The method catalogue: each curve method's and optimizer's human label and
- * one-line note (our own words), the one place pages, forms and the scorecard
- * read them from. Plain TypeScript, relative imports only.
+ * one-line note (our own words), and each curve method's stated continuity,
+ * minimum points and options with their form fields: the one place the numerics
+ * registry, the fit preview, the study form, pages and the scorecard read them from. Plain TypeScript, relative imports only.
  */
 import type { Continuity, CurveMethod } from '../numerics/fits/types';
 import type { OptimizerName } from '../numerics/optimize/types';
@@ -11,20 +12,80 @@ export interface MethodEntry {
 	note: string;
 }
 
-export const CURVE_METHOD_CATALOGUE: Readonly<Record<CurveMethod, MethodEntry>> = {
-	linear: { label: 'Piecewise linear', note: 'straight lines between points; slope jumps at every point' },
-	'cubic-natural': { label: 'Cubic spline, natural ends', note: 'cubic spline, zero curvature at both ends' },
-	'cubic-not-a-knot': { label: 'Cubic spline, not-a-knot ends', note: 'cubic spline, one cubic over the first two and last two intervals' },
-	'cubic-clamped': { label: 'Cubic spline, clamped ends', note: 'cubic spline with the end slopes you give' },
-	akima: { label: 'Akima (1970)', note: 'Akima (1970): local cubic that resists wiggles near outliers' },
-	'akima-modified': { label: 'Akima, modified', note: 'modified Akima: avoids overshoot on flat stretches' },
-	pchip: { label: 'PCHIP (Fritsch–Carlson, monotone)', note: 'monotone cubic (Fritsch–Carlson): keeps monotone data monotone' },
-	'local-quadratic': { label: 'Local quadratic (Lagrange)', note: 'quadratics through neighbouring points, joined without slope matching' },
-	'local-cubic': { label: 'Local cubic (Lagrange)', note: 'cubics through neighbouring points, joined without slope matching' },
-	'polynomial-global': { label: 'Global interpolating polynomial', note: 'one polynomial through every point; rings between many points' },
-	'polynomial-least-squares': { label: 'Least-squares polynomial', note: 'least-squares polynomial of a chosen degree (does not interpolate)' },
-	'smoothing-spline': { label: 'Smoothing spline (λ or GCV)', note: 'penalised spline, smoothing chosen by cross-validation (noisy data)' },
-	'softened-linear': { label: 'Softened linear', note: 'the linear fit with each kink rounded over a small width' }
+/** An option a curve method takes besides `extrapolation` (the API's name for it). */
+export type CurveOption = 'degree' | 'lambda' | 'width' | 'slopes';
+
+/** One field of the new-study form for a method's option. */
+export interface FormField {
+	field: string;
+	label: string;
+	placeholder: string;
+}
+
+export interface CurveMethodEntry extends MethodEntry {
+	/** the class the method guarantees */
+	continuity: Continuity;
+	/** fewest distinct points (smoothing-spline: 5 with GCV, 3 at fixed λ; least squares: degree + 1) */
+	minPoints: number;
+	/** passes through every data point */
+	interpolates: boolean;
+	/** the options it takes besides `extrapolation`; `required` ones must be given */
+	options: readonly CurveOption[];
+	required?: readonly CurveOption[];
+	/** how the new-study form asks for those options */
+	formFields?: readonly FormField[];
+}
+
+export const CURVE_METHOD_CATALOGUE: Readonly<Record<CurveMethod, CurveMethodEntry>> = {
+	linear: { label: 'Piecewise linear', note: 'straight lines between points; slope jumps at every point', continuity: 'C0', minPoints: 2, interpolates: true, options: [] },
+	'cubic-natural': { label: 'Cubic spline, natural ends', note: 'cubic spline, zero curvature at both ends', continuity: 'C2', minPoints: 2, interpolates: true, options: [] },
+	'cubic-not-a-knot': { label: 'Cubic spline, not-a-knot ends', note: 'cubic spline, one cubic over the first two and last two intervals', continuity: 'C2', minPoints: 2, interpolates: true, options: [] },
+	'cubic-clamped': {
+		label: 'Cubic spline, clamped ends',
+		note: 'cubic spline with the end slopes you give',
+		continuity: 'C2',
+		minPoints: 2,
+		interpolates: true,
+		options: ['slopes'],
+		required: ['slopes'],
+		formFields: [
+			{ field: 'slopeStart', label: 'f′ at first x', placeholder: '0' },
+			{ field: 'slopeEnd', label: 'f′ at last x', placeholder: '0' }
+		]
+	},
+	akima: { label: 'Akima (1970)', note: 'Akima (1970): local cubic that resists wiggles near outliers', continuity: 'C1', minPoints: 3, interpolates: true, options: [] },
+	'akima-modified': { label: 'Akima, modified', note: 'modified Akima: avoids overshoot on flat stretches', continuity: 'C1', minPoints: 3, interpolates: true, options: [] },
+	pchip: { label: 'PCHIP (Fritsch–Carlson, monotone)', note: 'monotone cubic (Fritsch–Carlson): keeps monotone data monotone', continuity: 'C1', minPoints: 2, interpolates: true, options: [] },
+	'local-quadratic': { label: 'Local quadratic (Lagrange)', note: 'quadratics through neighbouring points, joined without slope matching', continuity: 'C0', minPoints: 3, interpolates: true, options: [] },
+	'local-cubic': { label: 'Local cubic (Lagrange)', note: 'cubics through neighbouring points, joined without slope matching', continuity: 'C0', minPoints: 4, interpolates: true, options: [] },
+	'polynomial-global': { label: 'Global interpolating polynomial', note: 'one polynomial through every point; rings between many points', continuity: 'Cinf', minPoints: 2, interpolates: true, options: [] },
+	'polynomial-least-squares': {
+		label: 'Least-squares polynomial',
+		note: 'least-squares polynomial of a chosen degree (does not interpolate)',
+		continuity: 'Cinf',
+		minPoints: 2,
+		interpolates: false,
+		options: ['degree'],
+		formFields: [{ field: 'degree', label: 'degree', placeholder: '3' }]
+	},
+	'smoothing-spline': {
+		label: 'Smoothing spline (λ or GCV)',
+		note: 'penalised spline, smoothing chosen by cross-validation (noisy data)',
+		continuity: 'C2',
+		minPoints: 5,
+		interpolates: false,
+		options: ['lambda'],
+		formFields: [{ field: 'lambda', label: 'λ (blank: chosen by GCV)', placeholder: 'GCV' }]
+	},
+	'softened-linear': {
+		label: 'Softened linear',
+		note: 'the linear fit with each kink rounded over a small width',
+		continuity: 'C1',
+		minPoints: 2,
+		interpolates: false,
+		options: ['width'],
+		formFields: [{ field: 'width', label: 'rounding width', placeholder: 'auto' }]
+	}
 };
 
 export const OPTIMIZER_CATALOGUE: Readonly<Record<OptimizerName, MethodEntry>> = {

@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { signInSchema } from '$lib/schemas';
-import { signIn, startSession } from '$lib/server/accounts';
+import { signIn, startSession } from '$lib/server/accounts/service';
 import { formAction } from '$lib/server/forms';
 import { safeNext } from '$lib/server/safeNext';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,5 +1,5 @@
 import { redirect } from '@sveltejs/kit';
-import { endSession } from '$lib/server/accounts';
+import { endSession } from '$lib/server/accounts/service';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (() => redirect(303, '/')) satisfies PageServerLoad;

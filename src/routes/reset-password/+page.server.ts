@@ -1,5 +1,5 @@
 import { resetRequestSchema } from '$lib/schemas';
-import { requestPasswordReset } from '$lib/server/accounts';
+import { requestPasswordReset } from '$lib/server/accounts/service';
 import { formAction } from '$lib/server/forms';
 import type { Actions } from './$types';
 

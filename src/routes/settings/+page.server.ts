@@ -1,10 +1,10 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { emailChangeSchema, passwordChangeSchema, profileSchema, tokenCreateSchema } from '$lib/schemas';
-import { changeEmail, changePassword } from '$lib/server/accounts';
-import * as apiTokens from '$lib/server/apiTokens';
+import { changeEmail, changePassword } from '$lib/server/accounts/service';
+import * as apiTokens from '$lib/server/accounts/apiTokens';
 import { db } from '$lib/server/db';
 import { formAction, fromForm } from '$lib/server/forms';
-import * as users from '$lib/server/users';
+import * as users from '$lib/server/accounts/users';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals, url }) => {

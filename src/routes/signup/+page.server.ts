@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { signUpSchema } from '$lib/schemas';
-import { signUp, startSession } from '$lib/server/accounts';
+import { signUp, startSession } from '$lib/server/accounts/service';
 import { formAction } from '$lib/server/forms';
 import { safeNext } from '$lib/server/safeNext';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { packPath, unpackPath } from '$lib/server/studies/pathPack';
+import { packPath, unpackPath } from '$lib/domain/pathPack';
 
 describe('packed paths', () => {
 	it('round-trip bit for bit, non-finite values as null', () => {

@@ -3,7 +3,7 @@
 // the cases are the ones a design review would raise.
 import { describe, expect, it } from 'vitest';
 import { monotoneOf, rank, type ScorecardRow } from '$lib/server/studies/scorecard';
-import { separateOptima, verdict, type VerdictInput } from '$lib/server/studies/verdict';
+import { separateOptima, verdict, type VerdictInput } from '$lib/domain/verdict';
 
 interface Case {
 	method: string;

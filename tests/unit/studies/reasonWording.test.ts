@@ -8,8 +8,8 @@ import { auditSmoothness } from '$lib/numerics/audit/smoothness';
 import { fitCurve } from '$lib/numerics/fits';
 import type { CurveMethod } from '$lib/numerics/fits/types';
 import { optimize, type OptimizerName } from '$lib/numerics/optimize';
-import { curveProblem, kinksOf } from '$lib/server/studies/problem';
-import { boundNote, dataPointAt, studyReason, type ReasonContext } from '$lib/server/studies/reasonWording';
+import { curveProblem, kinksOf } from '$lib/domain/problem';
+import { boundNote, dataPointAt, studyReason, type ReasonContext } from '$lib/domain/reasonWording';
 import { runScipy } from '../../reference/scipy';
 
 const X = [0, 1, 2, 3, 4];

@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitCurve } from '$lib/numerics/fits';
-import { curveProblem } from '$lib/server/studies/problem';
-import { referenceOptimum } from '$lib/server/studies/reference';
+import { curveProblem } from '$lib/domain/problem';
+import { referenceOptimum } from '$lib/domain/reference';
 import { expectClose } from '../../reference/tolerance';
 
 // y = 1 − (x − 0.3)² sampled exactly; a least-squares quadratic reproduces it.

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { studyFormSchema, studyInputSchema } from '$lib/server/studies/schema';
+import { studyFormSchema, studyInputSchema } from '$lib/server/studies/launchRequest';
 
 const id = '3f1a2b4c-5d6e-4f70-8a9b-0c1d2e3f4a5b';
 const base = { datasetId: id, output: 'eta', problem: { kind: 'maximize' }, fits: [{ method: 'pchip' }], optimizers: [{ method: 'sqp' }], starts: { grid: 4 } };

@@ -1,6 +1,6 @@
 import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
-import { ThreadPool } from '$lib/server/studies/threadPool';
+import { ThreadPool } from '$lib/server/studies/queue/threadPool';
 
 const script = fileURLToPath(new URL('./poolThread.mjs', import.meta.url));
 const pool = new ThreadPool(script, 2, undefined, () => {});

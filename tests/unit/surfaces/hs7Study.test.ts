@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { surfaceFromJSON } from '../../../src/lib/numerics/fits/surfaceFile';
 import { optimize } from '../../../src/lib/numerics/optimize/optimize';
 import { buildSurfaceFits } from '../../../src/lib/server/offload/surfaceWork';
-import { surfaceProblem } from '../../../src/lib/server/studies/surfaceProblem';
+import { surfaceProblem } from '../../../src/lib/domain/surfaceProblem';
 import { runScipy } from '../../reference/scipy';
 
 const a = Array.from({ length: 31 }, (_, i) => -1.5 + 0.1 * i);

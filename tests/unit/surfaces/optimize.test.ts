@@ -13,7 +13,7 @@ import { describe, expect, it } from 'vitest';
 import { fitGrid } from '../../../src/lib/numerics/fits';
 import type { GridMethod } from '../../../src/lib/numerics/fits';
 import { optimize } from '../../../src/lib/numerics/optimize';
-import { surfaceProblem } from '../../../src/lib/server/studies/surfaceProblem';
+import { surfaceProblem } from '../../../src/lib/domain/surfaceProblem';
 import { tabulate, unevenAxis } from './helpers';
 
 const rosen = ([x, y]: number[]) => 100 * (y - x * x) ** 2 + (1 - x) ** 2;

@@ -4,9 +4,9 @@
 // both read this object.
 import { invalidateAll } from '$app/navigation';
 import { isActive } from '$lib/domain/lifecycle';
-import type { Status } from './types';
+import type { StudyStatus } from '$lib/domain/lifecycle';
 
-export type Live = { status: Status; done: number; total: number; audits: { done: number; total: number }; error?: string | null };
+export type Live = { status: StudyStatus; done: number; total: number; audits: { done: number; total: number }; error?: string | null };
 
 export function liveStatus(initial: () => Live, urls: () => { eventsUrl: string | null; pollUrl: string | null }) {
 	const live = $state<Live>({ ...initial() });
@@ -15,7 +15,7 @@ export function liveStatus(initial: () => Live, urls: () => { eventsUrl: string 
 		Object.assign(live, initial());
 	});
 	$effect(() => {
-		const ended = (s: Status) => !isActive(s);
+		const ended = (s: StudyStatus) => !isActive(s);
 		const { eventsUrl, pollUrl } = urls();
 		if (ended(initial().status)) return;
 		if (eventsUrl) {

@@ -1,31 +1,10 @@
 // The page receives runs column by column (compact, quick to load); the
 // tables and charts want rows.
-import type { RunView } from './types';
+import type { RunColumns, RunRow } from '$lib/domain/wire';
+export type { RunColumns } from '$lib/domain/wire';
 
-export interface RunColumns {
-	n: number;
-	fitIds: string[];
-	optimizers: string[];
-	starts: number[];
-	id: string[];
-	fit: number[];
-	optimizer: number[];
-	start: number[];
-	outcome: string[];
-	atKink: boolean[];
-	/** absent in data stored before the column existed */
-	outsideData?: boolean[];
-	reason: string[];
-	iterations: number[];
-	evalsF: number[];
-	evalsGrad: number[];
-	x: (number | null)[];
-	f: (number | null)[];
-	gradNorm: (number | null)[];
-	ms: number[];
-}
 
-export function runRows(c: RunColumns, methods: Record<string, string>): RunView[] {
+export function runRows(c: RunColumns, methods: Record<string, string>): RunRow[] {
 	const n = c.n;
 	return c.id.map((id, i) => ({
 		id,
@@ -37,7 +16,7 @@ export function runRows(c: RunColumns, methods: Record<string, string>): RunView
 		start: c.starts.slice(c.start[i] * n, (c.start[i] + 1) * n),
 		outcome: c.outcome[i],
 		atKink: c.atKink[i],
-		outsideData: c.outsideData?.[i] === true,
+		outsideData: c.outsideData[i] === true,
 		reason: c.reason[i],
 		iterations: c.iterations[i],
 		evaluations: { f: c.evalsF[i], grad: c.evalsGrad[i] },

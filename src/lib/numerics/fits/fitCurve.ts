@@ -19,35 +19,40 @@ import { ScaledPolynomial, polynomialLeastSquares } from './polynomial-least-squ
 import { smoothingSpline } from './smoothing-spline';
 import { softenedLinear } from './softened-linear';
 import { isSurfaceFitFile } from './surfaceFile';
-import type { Continuity, CurveFit, CurveFitOptions, CurveMethod } from './types';
+import { CURVE_METHOD_CATALOGUE, type CurveMethodEntry } from '../../domain/methods';
+import type { CurveFit, CurveFitOptions, CurveMethod } from './types';
 
 export type CurveBuilder = (x: ArrayLike<number>, y: ArrayLike<number>, options?: CurveFitOptions) => CurveFit;
 
-export interface CurveMethodInfo {
+export interface CurveMethodInfo extends Pick<CurveMethodEntry, 'continuity' | 'minPoints' | 'interpolates'> {
 	build: CurveBuilder;
-	/** the class the method guarantees */
-	continuity: Continuity;
-	/** fewest distinct points (smoothing-spline: 5 with GCV, 3 at fixed λ; least squares: degree + 1) */
-	minPoints: number;
-	/** interpolates every data point */
-	interpolates: boolean;
 }
 
-export const curveMethods: Readonly<Record<CurveMethod, CurveMethodInfo>> = Object.freeze({
-	linear: { build: linear, continuity: 'C0', minPoints: 2, interpolates: true },
-	'cubic-natural': { build: cubicNatural, continuity: 'C2', minPoints: 2, interpolates: true },
-	'cubic-not-a-knot': { build: cubicNotAKnot, continuity: 'C2', minPoints: 2, interpolates: true },
-	'cubic-clamped': { build: cubicClamped, continuity: 'C2', minPoints: 2, interpolates: true },
-	akima: { build: akima, continuity: 'C1', minPoints: 3, interpolates: true },
-	'akima-modified': { build: akimaModified, continuity: 'C1', minPoints: 3, interpolates: true },
-	pchip: { build: pchip, continuity: 'C1', minPoints: 2, interpolates: true },
-	'local-quadratic': { build: localQuadratic, continuity: 'C0', minPoints: 3, interpolates: true },
-	'local-cubic': { build: localCubic, continuity: 'C0', minPoints: 4, interpolates: true },
-	'polynomial-global': { build: polynomialGlobal, continuity: 'Cinf', minPoints: 2, interpolates: true },
-	'polynomial-least-squares': { build: polynomialLeastSquares, continuity: 'Cinf', minPoints: 2, interpolates: false },
-	'smoothing-spline': { build: smoothingSpline, continuity: 'C2', minPoints: 5, interpolates: false },
-	'softened-linear': { build: softenedLinear, continuity: 'C1', minPoints: 2, interpolates: false }
-});
+const BUILDERS: Readonly<Record<CurveMethod, CurveBuilder>> = {
+	linear,
+	'cubic-natural': cubicNatural,
+	'cubic-not-a-knot': cubicNotAKnot,
+	'cubic-clamped': cubicClamped,
+	akima,
+	'akima-modified': akimaModified,
+	pchip,
+	'local-quadratic': localQuadratic,
+	'local-cubic': localCubic,
+	'polynomial-global': polynomialGlobal,
+	'polynomial-least-squares': polynomialLeastSquares,
+	'smoothing-spline': smoothingSpline,
+	'softened-linear': softenedLinear
+};
+
+/** Each method's builder with its stated continuity, minimum points and interpolation (from the catalogue). */
+export const curveMethods: Readonly<Record<CurveMethod, CurveMethodInfo>> = Object.freeze(
+	Object.fromEntries(
+		(Object.keys(BUILDERS) as CurveMethod[]).map((m) => {
+			const { continuity, minPoints, interpolates } = CURVE_METHOD_CATALOGUE[m];
+			return [m, { build: BUILDERS[m], continuity, minPoints, interpolates }];
+		})
+	) as Record<CurveMethod, CurveMethodInfo>
+);
 
 export function isCurveMethod(method: unknown): method is CurveMethod {
 	return typeof method === 'string' && Object.prototype.hasOwnProperty.call(curveMethods, method);

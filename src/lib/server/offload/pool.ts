@@ -7,7 +7,7 @@
  */
 import os from 'node:os';
 import path from 'node:path';
-import { ThreadLost, ThreadPool } from '../studies/threadPool';
+import { ThreadLost, ThreadPool } from '../studies/queue/threadPool';
 import { StudyRejected } from '../studies/launch';
 import { formatBudget, LAUNCH_BUILD_BUDGET_MS, MAX_WAITING } from './limits';
 import type { BuildResult, BuildTask, FitTask } from './fitWork';

@@ -1,8 +1,8 @@
 // A study's access follows its workspace: non-members get 404 (a study's
 // existence does not leak), members below the role get 403.
 import { isHttpError } from '@sveltejs/kit';
-import type { Role } from '$lib/schemas';
-import { workspaceAccessById, requireUser, type Access } from '../access';
+import type { Role } from '../../schemas';
+import { workspaceAccessById, requireUser, type Access } from '../workspaces/access';
 import { fail4xx } from '../api';
 import { db } from '../db';
 import * as store from './store';

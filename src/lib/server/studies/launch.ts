@@ -15,14 +15,14 @@ import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { MIN_GRAD_TOL, MIN_TOL } from '../../numerics/optimize/run';
 import { makeStarts } from '../../numerics/optimize/starts';
-import { getWithData } from '../datasetStore';
+import { getWithData } from '../datasets/store';
 import { buildFits, type BuildResult, type BuildTask } from '../offload/fitWork';
 import { buildSurfaceFits, GRID_MAX_NODES, type SurfaceBuildTask } from '../offload/surfaceWork';
-import { insertJobs, queueName } from './boss';
-import { auditJob, runsJob, startsPerJob, type StudyJob } from './jobs';
-import { packStarts } from './runner';
-import { DEFAULT_BUDGETS, MAX_RUNS, MAX_STARTS, MAX_STUDY_INPUTS, type StudyInput } from './schema';
-import type { StudySpec } from './spec';
+import { insertJobs, queueName } from './queue/boss';
+import { auditJob, runsJob, startsPerJob, type StudyJob } from './queue/jobs';
+import { packStarts } from './queue/runner';
+import { DEFAULT_BUDGETS, MAX_RUNS, MAX_STARTS, MAX_STUDY_INPUTS, type StudyInput } from './launchRequest';
+import type { StudySpec } from '../../domain/studySpec';
 
 /** Largest curve a study takes: every fit is built when the study is launched. */
 export const MAX_STUDY_ROWS = 20_000;

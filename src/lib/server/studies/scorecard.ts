@@ -6,7 +6,7 @@
  */
 import type { Knex } from 'knex';
 import type { Study, StudyFit } from './store';
-import { rankByVerdict, separateOptima, THRESHOLDS, VERDICT_RULE, verdict, type Verdict } from './verdict';
+import { rankByVerdict, separateOptima, THRESHOLDS, VERDICT_RULE, verdict } from '../../domain/verdict';
 
 type Db = Knex | Knex.Transaction;
 
@@ -16,38 +16,10 @@ export const RANK_RULE = VERDICT_RULE;
 export const REFERENCE_TOLERANCE = 1e-6;
 
 import { OUTCOMES } from '../../domain/outcomes';
+import type { Monotone, ScorecardRow } from '../../domain/wire';
+export type { Monotone, ScorecardRow } from '../../domain/wire';
 export { OUTCOMES };
 
-export interface ScorecardRow {
-	rank: number;
-	fitId: string;
-	method: string;
-	optimizer: string;
-	optimizerIndex: number;
-	runs: number;
-	/** share of runs that converged away from a kink */
-	successRate: number;
-	medianIterations: number | null;
-	medianEvaluations: number | null;
-	best: { x: number[]; f: number; runId: number; converged: boolean } | null;
-	outcomes: Record<(typeof OUTCOMES)[number], number>;
-	atKink: number;
-	/** runs whose end point lies outside the data's range (on the fit's extrapolation) */
-	outsideData: number;
-	/** range of x* and of f* over the converged runs */
-	spread: { x: number; f: number } | null;
-	reference: { x: number[] | null; f: number | null } | null;
-	/** how far the best end point is from the reference: |Δx| and the shortfall in f (0 when it matches or beats it) */
-	gap: { x: number | null; f: number } | null;
-	reachesReference: boolean | null;
-	continuity: { declared: string; measured: string | null };
-	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
-	/** whole-curve monotonicity when the data are monotone, else per monotone stretch of the data */
-	monotone: Monotone;
-	/** separate places the converged runs ended (first coordinate), with the share of converged runs at each */
-	optima: { x: number; share: number }[] | null;
-	verdict: Verdict;
-}
 
 const num = (v: unknown): number | null => (v === null || v === undefined ? null : Number.isFinite(Number(v)) ? Number(v) : null);
 
@@ -155,11 +127,6 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 	return rank(rows);
 }
 
-export type Monotone =
-	| { applies: 'whole'; direction: string; kept: boolean }
-	| { applies: 'stretches'; total: number; kept: number; broken: { from: number; to: number }[] }
-	| { applies: 'no'; reason: string }
-	| null;
 
 /** Monotonicity as the scorecard states it: never "kept" where the data are not monotone. */
 export function monotoneOf(fit: Pick<StudyFit, 'fidelity'> | undefined): Monotone {

@@ -5,10 +5,12 @@
  */
 import type { Knex } from 'knex';
 import { newSecret, sha256 } from '../tokens';
-import { queueName } from './boss';
-import { unpackPath, type StoredPath } from './pathPack';
-import { unpackStarts } from './runner';
-import type { StudySpec } from './spec';
+import { queueName } from './queue/boss';
+import { unpackPath, type StoredPath } from '../../domain/pathPack';
+import { unpackStarts } from './queue/runner';
+import type { StudySpec } from '../../domain/studySpec';
+import type { RunColumns, RunRow, StudyFit, StudyPick } from '../../domain/wire';
+export type { RunColumns, RunRow, StudyFit } from '../../domain/wire';
 
 type Db = Knex | Knex.Transaction;
 import { ACTIVE_STATUSES, type StudyStatus } from '../../domain/lifecycle';
@@ -34,7 +36,7 @@ export interface Study {
 	createdAt: Date;
 	startedAt: Date | null;
 	finishedAt: Date | null;
-	pick: null | { fitId: string; rationale: string; by: string | null; at: Date };
+	pick: StudyPick | null;
 }
 
 const STUDY_COLUMNS = [
@@ -111,44 +113,12 @@ export async function progressOf(db: Db, ids: string[]): Promise<Progress[]> {
 	return rows.map((r) => ({ id: r.id, status: r.status, done: r.runs_done, total: r.runs_total, audits: { done: r.audits_done, total: r.audits_total }, error: r.error }));
 }
 
-export interface StudyFit {
-	id: string;
-	position: number;
-	method: string;
-	options: Record<string, unknown>;
-	continuity: string;
-	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string };
-	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; overshootRelative?: number; monotoneKept?: boolean; dataMonotone?: string | null; stretches?: { from: number; to: number; direction: string; kept: boolean; worstAt: number | null }[] | null; spuriousExtrema?: number; error?: string };
-	reference: null | { kind: string; x: number[] | null; f: number | null; roots?: number[]; fRange: number; note?: string; error?: string };
-	samples?: { x: number[]; f: (number | null)[] } | null;
-}
 
 export async function fits(db: Db, studyId: string, withSamples = false): Promise<StudyFit[]> {
 	const cols = ['id', 'position', 'method', 'options', 'continuity', 'smoothness', 'fidelity', 'reference', ...(withSamples ? ['samples'] : [])];
 	return (await db('study_fits').where({ study_id: studyId }).orderBy('position').select(cols)) as StudyFit[];
 }
 
-export interface RunRow {
-	/** the run's public id (random; the sequential key stays in the database) */
-	id: string;
-	fitId: string;
-	method: string;
-	optimizer: string;
-	optimizerIndex: number;
-	startIndex: number;
-	start: number[];
-	outcome: string;
-	atKink: boolean;
-	/** the end point lies outside the data's range (on the fit's extrapolation) */
-	outsideData: boolean;
-	reason: string;
-	iterations: number;
-	evaluations: { f: number; grad: number };
-	x: number[];
-	f: number | null;
-	gradNorm: number | null;
-	ms: number;
-}
 
 const finite = (v: number | null) => (v !== null && Number.isFinite(v) ? v : null);
 
@@ -185,34 +155,6 @@ export async function runs(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' 
 	}));
 }
 
-/**
- * The runs of a study column by column, for the study page: arrays of
- * numbers serialise and load several times faster than thousands of small
- * objects. The page turns them back into rows (components/study/runs.ts).
- */
-export interface RunColumns {
-	n: number;
-	fitIds: string[];
-	optimizers: string[];
-	/** start points, n numbers each, by start index */
-	starts: number[];
-	id: string[];
-	fit: number[];
-	optimizer: number[];
-	start: number[];
-	outcome: string[];
-	atKink: boolean[];
-	outsideData: boolean[];
-	reason: string[];
-	iterations: number[];
-	evalsF: number[];
-	evalsGrad: number[];
-	/** end points, n numbers each */
-	x: (number | null)[];
-	f: (number | null)[];
-	gradNorm: (number | null)[];
-	ms: number[];
-}
 
 export async function runColumns(db: Db, study: Pick<Study, 'id' | 'spec' | 'nInputs' | 'startCount'>, fitIds: string[]): Promise<RunColumns> {
 	const [rows, startsRow] = await Promise.all([

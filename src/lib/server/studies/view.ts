@@ -3,8 +3,10 @@
  * page fetches one when the reader opens a run.
  */
 import type { Knex } from 'knex';
-import { getWithData } from '../datasetStore';
-import { scorecard, type ScorecardRow } from './scorecard';
+import { getWithData } from '../datasets/store';
+import { scorecard } from './scorecard';
+import type { StudyPage } from '../../domain/wire';
+export type { StudyPage } from '../../domain/wire';
 import * as store from './store';
 import type { Study } from './store';
 
@@ -49,27 +51,6 @@ const CHART_POINTS = 2000;
 /** Most runs a page carries; beyond this the page shows the scorecard and pages runs through the API. */
 export const PAGE_RUNS = 20_000;
 
-export interface StudyPage {
-	study: {
-		id: string;
-		name: string;
-		status: Study['status'];
-		progress: Study['progress'];
-		audits: Study['audits'];
-		error: string | null;
-		output: string;
-		spec: Study['spec'];
-		createdBy: string | null;
-		createdAt: string;
-		startedAt: string | null;
-		finishedAt: string | null;
-		pick: Study['pick'];
-	};
-	fits: store.StudyFit[];
-	scorecard: ScorecardRow[];
-	runs: store.RunColumns | null;
-	data: { x: number[]; y: number[] } | null;
-}
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 

@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import * as workspaces from '$lib/server/workspaces';
+import * as workspaces from '$lib/server/workspaces/store';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ params, locals }) => {

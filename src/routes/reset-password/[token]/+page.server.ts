@@ -2,10 +2,10 @@ import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { newPassword } from '$lib/schemas';
 
-import { resetPassword } from '$lib/server/accounts';
+import { resetPassword } from '$lib/server/accounts/service';
 import { db } from '$lib/server/db';
 import { formAction } from '$lib/server/forms';
-import * as passwordResets from '$lib/server/passwordResets';
+import * as passwordResets from '$lib/server/accounts/passwordResets';
 import type { Actions, PageServerLoad } from './$types';
 
 const schema = z.object({

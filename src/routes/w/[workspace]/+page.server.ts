@@ -1,11 +1,11 @@
 import { inviteSchema, memberRemoveSchema, memberRoleSchema } from '$lib/schemas';
-import { roleAtLeast, workspaceAccess } from '$lib/server/access';
+import { roleAtLeast, workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as datasetStore from '$lib/server/datasetStore';
+import * as datasetStore from '$lib/server/datasets/store';
 import * as studyStore from '$lib/server/studies/store';
 import { formAction } from '$lib/server/forms';
-import { inviteMember } from '$lib/server/invitations';
-import * as workspaces from '$lib/server/workspaces';
+import { inviteMember } from '$lib/server/workspaces/invitations';
+import * as workspaces from '$lib/server/workspaces/store';
 import { redirect } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -2,8 +2,8 @@ import { json } from '@sveltejs/kit';
 import { tokenCreateSchema } from '$lib/schemas';
 import type { RequestHandler } from './$types';
 import { api, fail4xx, readJson } from '$lib/server/api';
-import { requireUser } from '$lib/server/access';
-import * as apiTokens from '$lib/server/apiTokens';
+import { requireUser } from '$lib/server/workspaces/access';
+import * as apiTokens from '$lib/server/accounts/apiTokens';
 import { db } from '$lib/server/db';
 
 export const GET = api<RequestHandler>(async ({ locals }) => {

@@ -2,9 +2,9 @@ import { json } from '@sveltejs/kit';
 import { workspaceCreateSchema } from '$lib/schemas';
 import type { RequestHandler } from './$types';
 import { api, readJson } from '$lib/server/api';
-import { requireUser } from '$lib/server/access';
+import { requireUser } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as workspaces from '$lib/server/workspaces';
+import * as workspaces from '$lib/server/workspaces/store';
 
 export const GET = api<RequestHandler>(async ({ locals }) => {
 	const user = requireUser(locals);

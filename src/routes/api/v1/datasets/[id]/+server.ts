@@ -2,8 +2,8 @@ import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { datasetAccess, datasetJson, rowsJson } from '$lib/server/datasetAccess';
-import * as datasetStore from '$lib/server/datasetStore';
+import { datasetAccess, datasetJson, rowsJson } from '$lib/server/datasets/access';
+import * as datasetStore from '$lib/server/datasets/store';
 
 /** Metadata, columns, shape and row count; `?rows=1` adds the rows (row-major, in column order). */
 export const GET = api<RequestHandler>(async ({ locals, params, url }) => {

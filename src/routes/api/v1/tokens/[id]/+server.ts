@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
-import { requireUser } from '$lib/server/access';
-import * as apiTokens from '$lib/server/apiTokens';
+import { requireUser } from '$lib/server/workspaces/access';
+import * as apiTokens from '$lib/server/accounts/apiTokens';
 import { db } from '$lib/server/db';
 
 export const DELETE = api<RequestHandler>(async ({ locals, params }) => {

@@ -1,10 +1,10 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
-import { roleAtLeast } from '$lib/server/access';
+import { roleAtLeast } from '$lib/server/workspaces/access';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { datasetAccess, datasetJson } from '$lib/server/datasetAccess';
-import * as datasetStore from '$lib/server/datasetStore';
+import { datasetAccess, datasetJson } from '$lib/server/datasets/access';
+import * as datasetStore from '$lib/server/datasets/store';
 import { formAction } from '$lib/server/forms';
 import type { Actions, PageServerLoad } from './$types';
 

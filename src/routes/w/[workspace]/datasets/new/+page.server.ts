@@ -1,10 +1,10 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as drafts from '$lib/server/datasetDrafts';
-import * as datasetStore from '$lib/server/datasetStore';
+import * as drafts from '$lib/server/datasets/drafts';
+import * as datasetStore from '$lib/server/datasets/store';
 import { DatasetError, MAX_COLUMNS, MAX_FILE_BYTES, MAX_ROWS } from '$lib/server/datasets';
-import * as upload from '$lib/server/datasetUpload';
+import * as upload from '$lib/server/datasets/upload';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals, params, url }) => {

@@ -1,13 +1,13 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { CAUTION } from '$lib/caution';
-import { roleAtLeast } from '$lib/server/access';
+import { roleAtLeast } from '$lib/server/workspaces/access';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { formAction } from '$lib/server/forms';
 import { studyAccess } from '$lib/server/studies/access';
-import { cancelStudy, pickFit } from '$lib/server/studies/actions';
-import { pickSchema, shareNamesSchema, shareSchema } from '$lib/server/studies/schema';
+import { cancelStudy, pickFit } from '$lib/server/studies/commands';
+import { pickSchema, shareNamesSchema, shareSchema } from '$lib/server/studies/launchRequest';
 import { RANK_RULE } from '$lib/server/studies/scorecard';
 import * as studies from '$lib/server/studies/store';
 import { studyPage } from '$lib/server/studies/view';

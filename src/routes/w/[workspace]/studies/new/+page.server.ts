@@ -1,14 +1,14 @@
 import { redirect } from '@sveltejs/kit';
 import { curveMethods } from '$lib/numerics/fits';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { buildFitsOnThread } from '$lib/server/offload/pool';
-import * as datasetStore from '$lib/server/datasetStore';
+import * as datasetStore from '$lib/server/datasets/store';
 import { formAction } from '$lib/server/forms';
-import { queueReady } from '$lib/server/studies/app';
+import { queueReady } from '$lib/server/studies/queue/appWorkers';
 import { StudyRejected, launchStudy } from '$lib/server/studies/launch';
-import { BUDGET_LIMITS, DEFAULT_BUDGETS, CURVE_FIT_METHODS, FORM_FIT_OPTIONS, MAX_STARTS, OPTIMIZER_NAMES, studyFormSchema } from '$lib/server/studies/schema';
+import { BUDGET_LIMITS, DEFAULT_BUDGETS, CURVE_FIT_METHODS, FORM_FIT_OPTIONS, MAX_STARTS, OPTIMIZER_NAMES, studyFormSchema } from '$lib/server/studies/launchRequest';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async ({ locals, params, url }) => {
@@ -19,7 +19,7 @@ export const load = (async ({ locals, params, url }) => {
 		workspace: { slug: workspace.slug, name: workspace.name },
 		datasets: datasets.map((d) => ({ id: d.id, name: d.name, version: d.version, shape: d.shape, rowCount: d.rowCount, columns: d.columns, description: d.description })),
 		preselect: url.searchParams.get('dataset'),
-		fits: CURVE_FIT_METHODS.map((m) => ({ method: m, continuity: curveMethods[m].continuity, options: (FORM_FIT_OPTIONS as Record<string, readonly { field: string; label: string; placeholder: string }[]>)[m] ?? [] })),
+		fits: CURVE_FIT_METHODS.map((m) => ({ method: m, continuity: curveMethods[m].continuity, options: FORM_FIT_OPTIONS[m] ?? [] })),
 		optimizers: OPTIMIZER_NAMES,
 		limits: { starts: MAX_STARTS, budgets: BUDGET_LIMITS, defaults: DEFAULT_BUDGETS }
 	};

@@ -3,8 +3,8 @@ import { z } from 'zod';
 import type { RequestHandler } from './$types';
 import { api, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { datasetAccess } from '$lib/server/datasetAccess';
-import * as datasetStore from '$lib/server/datasetStore';
+import { datasetAccess } from '$lib/server/datasets/access';
+import * as datasetStore from '$lib/server/datasets/store';
 
 const archiveSchema = z.object({ archived: z.boolean({ error: 'archived must be true or false' }).default(true) }).strict();
 

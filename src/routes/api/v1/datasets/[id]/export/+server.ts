@@ -1,10 +1,10 @@
 import type { RequestEvent, RequestHandler } from './$types';
 import { api, fail4xx, requireJsonType } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { datasetAccess } from '$lib/server/datasetAccess';
-import * as datasetStore from '$lib/server/datasetStore';
-import { buildFitExport, exportFormatSchema, exportResponse, type ExportFormat } from '$lib/server/fitExports';
-import { fitPreviewSchema, previewFit } from '$lib/server/fitPreview';
+import { datasetAccess } from '$lib/server/datasets/access';
+import * as datasetStore from '$lib/server/datasets/store';
+import { buildFitExport, exportFormatSchema, exportResponse, type ExportFormat } from '$lib/server/studies/fitExports';
+import { fitPreviewSchema, previewFit } from '$lib/server/datasets/fitPreview';
 
 const NUMERIC = new Set(['degree', 'lambda', 'width']);
 

@@ -2,9 +2,9 @@ import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api, fail4xx, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { datasetAccess } from '$lib/server/datasetAccess';
-import * as datasetStore from '$lib/server/datasetStore';
-import { fitPreview, fitPreviewSchema } from '$lib/server/fitPreview';
+import { datasetAccess } from '$lib/server/datasets/access';
+import * as datasetStore from '$lib/server/datasets/store';
+import { fitPreview, fitPreviewSchema } from '$lib/server/datasets/fitPreview';
 
 /** `{ output, method, options?, at? }` → samples of f, f′, f″, the smoothness audit and fidelity. Viewers may preview. */
 export const POST = api<RequestHandler>(async (event) => {

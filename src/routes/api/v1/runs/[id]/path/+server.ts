@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { requireUser } from '$lib/server/access';
+import { requireUser } from '$lib/server/workspaces/access';
 import { studyAccess } from '$lib/server/studies/access';
 import * as studies from '$lib/server/studies/store';
 

@@ -3,8 +3,8 @@ import type { RequestHandler } from './$types';
 import { api, readJson } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { studyAccess } from '$lib/server/studies/access';
-import { pickFit } from '$lib/server/studies/actions';
-import { pickSchema } from '$lib/server/studies/schema';
+import { pickFit } from '$lib/server/studies/commands';
+import { pickSchema } from '$lib/server/studies/launchRequest';
 
 /** `{ fitId, rationale }` → 200 with the pick `{ fitId, rationale, by, at }` */
 export const POST = api<RequestHandler>(async (event) => {

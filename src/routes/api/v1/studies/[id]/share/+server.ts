@@ -3,7 +3,7 @@ import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { studyAccess } from '$lib/server/studies/access';
-import { shareNamesSchema, shareSchema } from '$lib/server/studies/schema';
+import { shareNamesSchema, shareSchema } from '$lib/server/studies/launchRequest';
 import * as studies from '$lib/server/studies/store';
 
 async function optionalJson(request: Request): Promise<unknown> {

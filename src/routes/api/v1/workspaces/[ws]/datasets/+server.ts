@@ -1,11 +1,11 @@
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as datasetStore from '$lib/server/datasetStore';
+import * as datasetStore from '$lib/server/datasets/store';
 import { DatasetError, parseDatasetJson, reportErrorBody, type ParsedTable } from '$lib/server/datasets';
-import * as upload from '$lib/server/datasetUpload';
+import * as upload from '$lib/server/datasets/upload';
 
 export const GET = api<RequestHandler>(async ({ locals, params, url }) => {
 	const { workspace } = await workspaceAccess(locals, params.ws, 'viewer');

@@ -2,8 +2,8 @@ import { json } from '@sveltejs/kit';
 import { inviteSchema } from '$lib/schemas';
 import type { RequestHandler } from './$types';
 import { api, readJson } from '$lib/server/api';
-import { workspaceAccess } from '$lib/server/access';
-import { inviteMember } from '$lib/server/invitations';
+import { workspaceAccess } from '$lib/server/workspaces/access';
+import { inviteMember } from '$lib/server/workspaces/invitations';
 
 export const POST = api<RequestHandler>(async (event) => {
 	const access = await workspaceAccess(event.locals, event.params.ws, 'owner');

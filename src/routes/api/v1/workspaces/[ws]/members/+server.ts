@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api } from '$lib/server/api';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as workspaces from '$lib/server/workspaces';
+import * as workspaces from '$lib/server/workspaces/store';
 
 export const GET = api<RequestHandler>(async ({ locals, params }) => {
 	const { workspace } = await workspaceAccess(locals, params.ws, 'viewer');

@@ -1,12 +1,12 @@
 import { json } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { api, fail4xx, readJson } from '$lib/server/api';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
 import { buildFitsOnThread } from '$lib/server/offload/pool';
-import { queueReady } from '$lib/server/studies/app';
+import { queueReady } from '$lib/server/studies/queue/appWorkers';
 import { StudyRejected, launchStudy } from '$lib/server/studies/launch';
-import { studyInputSchema } from '$lib/server/studies/schema';
+import { studyInputSchema } from '$lib/server/studies/launchRequest';
 import * as studies from '$lib/server/studies/store';
 
 export const GET = api<RequestHandler>(async ({ locals, params }) => {

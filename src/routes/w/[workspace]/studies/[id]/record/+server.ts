@@ -3,7 +3,7 @@ import type { RequestHandler } from './$types';
 import { api, fail4xx } from '$lib/server/api';
 import { db } from '$lib/server/db';
 import { studyAccess } from '$lib/server/studies/access';
-import { studyRecordResponse } from '$lib/server/studyRecord';
+import { studyRecordResponse } from '$lib/server/studies/record';
 
 const record = api<RequestHandler>(async ({ locals, params, url }) => {
 	const { study, access } = await studyAccess(locals, params.id, 'viewer');

@@ -3,9 +3,9 @@ import { z } from 'zod';
 import { roleSchema } from '$lib/schemas';
 import type { RequestHandler } from './$types';
 import { api, readJson } from '$lib/server/api';
-import { workspaceAccess } from '$lib/server/access';
+import { workspaceAccess } from '$lib/server/workspaces/access';
 import { db } from '$lib/server/db';
-import * as workspaces from '$lib/server/workspaces';
+import * as workspaces from '$lib/server/workspaces/store';
 
 export const PATCH = api<RequestHandler>(async (event) => {
 	const { workspace } = await workspaceAccess(event.locals, event.params.ws, 'owner');

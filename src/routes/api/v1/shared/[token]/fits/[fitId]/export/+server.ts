@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { api } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { formatFrom, studyFitExport } from '$lib/server/fitExports';
+import { formatFrom, studyFitExport } from '$lib/server/studies/fitExports';
 import { sharedStudy } from '$lib/server/studies/access';
 
 /** A fit of the study behind a share link, exported read-only, no sign-in. */

@@ -1,7 +1,7 @@
 import type { RequestHandler } from './$types';
 import { api } from '$lib/server/api';
 import { db } from '$lib/server/db';
-import { formatFrom, studyFitExport } from '$lib/server/fitExports';
+import { formatFrom, studyFitExport } from '$lib/server/studies/fitExports';
 import { studyAccess } from '$lib/server/studies/access';
 
 /** `?format=json|python|typescript|csv` → the fit file, generated code or samples, as a download. Viewers may export. */

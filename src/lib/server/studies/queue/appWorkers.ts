@@ -1,9 +1,9 @@
 // The app process's study workers, started from hooks.server.ts `init`.
 // KINKLESS_WORKERS threads (default: one per core; 0 computes nothing here,
 // leaving the work to `npm run worker` processes).
-import config from '../../../../knexfile';
-import { fail4xx } from '../api';
-import { db } from '../db';
+import config from '../../../../../knexfile';
+import { fail4xx } from '../../api';
+import { db } from '../../db';
 import { queueName } from './boss';
 import { currentWorkers, defaultThreads, processWorkers, type StudyWorkers } from './workers';
 

@@ -9,7 +9,7 @@
  * The scorecard measures each optimizer's best end point against it: an
  * optimizer that stops short of the fit's own optimum shows a gap.
  */
-import type { Problem } from '../../numerics/optimize/types';
+import type { Problem } from '../numerics/optimize/types';
 
 export interface Reference {
 	kind: 'optimum' | 'roots' | 'none';

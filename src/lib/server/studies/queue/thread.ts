@@ -8,7 +8,7 @@ import os from 'node:os';
 import { parentPort, threadId, workerData } from 'node:worker_threads';
 import knex from 'knex';
 import pg from 'pg';
-import config from '../../../../knexfile';
+import config from '../../../../../knexfile';
 import { warmUp } from './warmUp';
 import { runStudyJob, type RunnerContext } from './runner';
 import type { StudyJob } from './jobs';

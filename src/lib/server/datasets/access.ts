@@ -1,9 +1,9 @@
 // A dataset found by id, through the role check of its workspace.
-import type { Role } from '$lib/schemas';
-import { requireUser, workspaceAccessById, type Access } from './access';
-import { fail4xx } from './api';
-import { db } from './db';
-import * as datasetStore from './datasetStore';
+import type { Role } from '../../schemas';
+import { requireUser, workspaceAccessById, type Access } from '../workspaces/access';
+import { fail4xx } from '../api';
+import { db } from '../db';
+import * as datasetStore from './store';
 
 /**
  * The dataset's metadata and the caller's access; 404 for unknown ids and for outsiders

@@ -6,9 +6,9 @@
  * same method; and kinkAt from the fit's knots where f′ jumps (measured by the
  * smoothness audit, not assumed from the method).
  */
-import { auditSmoothness } from '../../numerics/audit/smoothness';
-import type { CurveFit } from '../../numerics/fits/types';
-import type { Constraint, Objective, Problem, ProblemKind } from '../../numerics/optimize/types';
+import { auditSmoothness } from '../numerics/audit/smoothness';
+import type { CurveFit } from '../numerics/fits/types';
+import type { Constraint, Objective, Problem, ProblemKind } from '../numerics/optimize/types';
 
 export type ConstraintOp = '<=' | '>=' | '=';
 export interface ProblemSpec {

@@ -1,7 +1,7 @@
 import { Lucia } from 'lucia';
 import { NodePostgresAdapter } from '@lucia-auth/adapter-postgresql';
 import { hash, verify } from '@node-rs/argon2';
-import { pgPool } from './db';
+import { pgPool } from '../db';
 
 let lucia: ReturnType<typeof makeLucia> | null = null;
 

@@ -5,7 +5,7 @@
  * and one SELECT per page; typed arrays make packing a copy, not a loop of
  * conversions.
  */
-import type { Path } from '../../numerics/optimize/types';
+import type { Path } from '../numerics/optimize/types';
 
 export interface StoredPath {
 	x: number[][];

@@ -1,6 +1,6 @@
 // Checked-but-unsaved uploads (see migrations/*_dataset_drafts.ts).
-import { isUuid } from '$lib/text';
-import type { Db } from './db';
+import { isUuid } from '../../text';
+import type { Db } from '../db';
 
 export type Draft = { id: string; kind: 'file' | 'paste'; filename: string | null; bytes: Uint8Array; createdAt: Date };
 

@@ -6,11 +6,11 @@
  * on a grid line where a partial derivative jumps (measured by the surface
  * smoothness audit, not assumed from the method).
  */
-import { auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
-import { TensorGrid } from '../../numerics/fits/TensorGrid';
-import { FitError } from '../../numerics/fits/FitError';
-import type { SurfaceFit } from '../../numerics/fits/surfaceTypes';
-import type { Constraint, Objective, Problem } from '../../numerics/optimize/types';
+import { auditSurfaceSmoothness } from '../numerics/audit/surfaceAudit';
+import { TensorGrid } from '../numerics/fits/TensorGrid';
+import { FitError } from '../numerics/fits/FitError';
+import type { SurfaceFit } from '../numerics/fits/surfaceTypes';
+import type { Constraint, Objective, Problem } from '../numerics/optimize/types';
 import type { ConstraintOp, ProblemSpec } from './problem';
 
 const OP_LABEL: Record<ConstraintOp, string> = { '<=': '≤', '>=': '≥', '=': '=' };

@@ -1,7 +1,7 @@
 // Datasets in PostgreSQL: metadata + column-major float64 data in one row.
-import { isUuid } from '../text';
-import type { Db } from './db';
-import type { Role, Shape } from './datasets/types';
+import { isUuid } from '../../text';
+import type { Db } from '../db';
+import type { Role, Shape } from './types';
 
 export type DatasetColumn = { name: string; unit: string | null; role: Role };
 export type DatasetMeta = {

@@ -1,5 +1,5 @@
-import type { Db } from './db';
-import { newSecret, sha256 } from './tokens';
+import type { Db } from '../db';
+import { newSecret, sha256 } from '../tokens';
 
 // Slowing down password guessing without letting a stranger lock the owner out: the
 // device-cookie scheme (docs/references.md, "Sign-in limits").

@@ -11,28 +11,28 @@
  */
 import os from 'node:os';
 import type { Knex } from 'knex';
-import { auditFidelity } from '../../numerics/audit/fidelity';
-import { monotoneStretches } from '../../numerics/audit/monotoneStretches';
-import { auditSmoothness } from '../../numerics/audit/smoothness';
-import { fitFromJSON } from '../../numerics/fits/fitCurve';
-import type { CurveFit } from '../../numerics/fits/types';
-import { auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
-import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
-import type { SurfaceFit } from '../../numerics/fits/surfaceTypes';
-import { TensorGrid } from '../../numerics/fits/TensorGrid';
-import { surfaceProblem } from './surfaceProblem';
-import { optimize } from '../../numerics/optimize/optimize';
-import { brokenRun } from '../../numerics/optimize/run';
-import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../numerics/optimize/types';
-import { getWithData } from '../datasetStore';
+import { auditFidelity } from '../../../numerics/audit/fidelity';
+import { monotoneStretches } from '../../../numerics/audit/monotoneStretches';
+import { auditSmoothness } from '../../../numerics/audit/smoothness';
+import { fitFromJSON } from '../../../numerics/fits/fitCurve';
+import type { CurveFit } from '../../../numerics/fits/types';
+import { auditSurfaceSmoothness } from '../../../numerics/audit/surfaceAudit';
+import { surfaceFromJSON } from '../../../numerics/fits/surfaceFile';
+import type { SurfaceFit } from '../../../numerics/fits/surfaceTypes';
+import { TensorGrid } from '../../../numerics/fits/TensorGrid';
+import { surfaceProblem } from '../../../domain/surfaceProblem';
+import { optimize } from '../../../numerics/optimize/optimize';
+import { brokenRun } from '../../../numerics/optimize/run';
+import type { OptimizeOptions, OptimizerName, Problem, RunResult } from '../../../numerics/optimize/types';
+import { getWithData } from '../../datasets/store';
 import { insertJobs } from './boss';
 import { mailJob, runsJob, softSeconds, type StudyJob } from './jobs';
-import { ACTIVE_STATUSES, isActive } from '../../domain/lifecycle';
-import { packPath } from './pathPack';
-import { curveProblem, kinksOf, type ProblemSpec } from './problem';
-import { studyReason, type ReasonContext } from './reasonWording';
-import { referenceOptimum } from './reference';
-import type { StudySpec } from './spec';
+import { ACTIVE_STATUSES, isActive } from '../../../domain/lifecycle';
+import { packPath } from '../../../domain/pathPack';
+import { curveProblem, kinksOf, type ProblemSpec } from '../../../domain/problem';
+import { studyReason, type ReasonContext } from '../../../domain/reasonWording';
+import { referenceOptimum } from '../../../domain/reference';
+import type { StudySpec } from '../../../domain/studySpec';
 
 export type Db = Knex | Knex.Transaction;
 

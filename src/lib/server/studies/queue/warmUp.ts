@@ -4,12 +4,12 @@
  * before the first real study: each thread compiles its own, and the app's
  * main thread builds every fit of a study when it launches it.
  */
-import { auditFidelity } from '../../numerics/audit/fidelity';
-import { curveMethods, fitCurve } from '../../numerics/fits/fitCurve';
-import type { CurveMethod } from '../../numerics/fits/types';
-import { optimize } from '../../numerics/optimize/optimize';
-import { curveProblem } from './problem';
-import { referenceOptimum } from './reference';
+import { auditFidelity } from '../../../numerics/audit/fidelity';
+import { curveMethods, fitCurve } from '../../../numerics/fits/fitCurve';
+import type { CurveMethod } from '../../../numerics/fits/types';
+import { optimize } from '../../../numerics/optimize/optimize';
+import { curveProblem } from '../../../domain/problem';
+import { referenceOptimum } from '../../../domain/reference';
 
 export function warmUp(full: boolean, budgetMs = 4000): void {
 	const x = Array.from({ length: 120 }, (_, i) => i / 15);

@@ -13,19 +13,19 @@ import {
 	type ParsedTable,
 	type Role,
 	type ValidationReport
-} from './datasets';
-import * as datasetStore from './datasetStore';
-import { controlCharacterIn } from '$lib/text';
-import { clipForMessage } from './datasets/limits';
-import { previewRows, type PreviewRow } from './datasets/previewRows';
-import { issueDetails } from './datasets/reportErrorBody';
-import { fail4xx } from './api';
-import type { ParseInput } from './datasets/parseTable';
-import { PARSE_HEAP_MB } from './datasets/limits';
-import { PARSE_BUDGET_MS } from './offload/limits';
-import { OffloadBusy, OffloadOverBudget, runOffThread } from './offload/pool';
-import { ThreadLost } from './studies/threadPool';
-import type { ParseResult } from './offload/tableWork';
+} from '.';
+import * as datasetStore from './store';
+import { controlCharacterIn } from '../../text';
+import { clipForMessage } from './limits';
+import { previewRows, type PreviewRow } from './previewRows';
+import { issueDetails } from './reportErrorBody';
+import { fail4xx } from '../api';
+import type { ParseInput } from './parseTable';
+import { PARSE_HEAP_MB } from './limits';
+import { PARSE_BUDGET_MS } from '../offload/limits';
+import { OffloadBusy, OffloadOverBudget, runOffThread } from '../offload/pool';
+import { ThreadLost } from '../studies/queue/threadPool';
+import type { ParseResult } from '../offload/tableWork';
 
 /** Room for the multipart framing and the small fields that travel with the file. */
 const FORM_OVERHEAD = 1024 * 1024;

@@ -2,11 +2,11 @@
 import type { Cookies } from '@sveltejs/kit';
 import type { z } from 'zod';
 import type { signInSchema, signUpSchema } from '$lib/schemas';
-import { fail4xx } from './api';
+import { fail4xx } from '../api';
 import { auth, hashPassword, verifyPassword } from './auth';
-import { db } from './db';
+import { db } from '../db';
 import * as apiTokens from './apiTokens';
-import { actionMail, send } from './mail';
+import { actionMail, send } from '../mail';
 import * as passwordResets from './passwordResets';
 import * as rateLimit from './rateLimit';
 import * as users from './users';

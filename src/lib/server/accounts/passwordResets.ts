@@ -1,5 +1,5 @@
-import type { Db } from './db';
-import { newSecret, sha256 } from './tokens';
+import type { Db } from '../db';
+import { newSecret, sha256 } from '../tokens';
 
 const LIFETIME_MINUTES = 60;
 

@@ -7,6 +7,7 @@ import { UUID_PATTERN } from '../../text';
 import { z } from 'zod';
 import { curveMethods } from '../../numerics/fits/fitCurve';
 import type { CurveMethod } from '../../numerics/fits/types';
+import { CURVE_METHOD_CATALOGUE, type FormField } from '../../domain/methods';
 import { gridMethods } from '../../numerics/fits/fitGrid';
 import type { GridMethod, ScatterMethod, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
@@ -195,15 +196,10 @@ export type OptimizerSpec = StudyInput['optimizers'][number];
 // ---------------------------------------------------------------- the form
 
 /** Fit options the form offers, by method: field suffix → option. */
-export const FORM_FIT_OPTIONS = {
-	'polynomial-least-squares': [{ field: 'degree', label: 'degree', placeholder: '3' }],
-	'smoothing-spline': [{ field: 'lambda', label: 'λ (blank: chosen by GCV)', placeholder: 'GCV' }],
-	'softened-linear': [{ field: 'width', label: 'rounding width', placeholder: 'auto' }],
-	'cubic-clamped': [
-		{ field: 'slopeStart', label: 'f′ at first x', placeholder: '0' },
-		{ field: 'slopeEnd', label: 'f′ at last x', placeholder: '0' }
-	]
-} as const satisfies Partial<Record<CurveMethod, readonly { field: string; label: string; placeholder: string }[]>>;
+/** Each curve method's option fields on the new-study form (from the catalogue; none for most methods). */
+export const FORM_FIT_OPTIONS: Readonly<Partial<Record<CurveMethod, readonly FormField[]>>> = Object.fromEntries(
+	Object.entries(CURVE_METHOD_CATALOGUE).flatMap(([m, e]) => (e.formFields ? [[m, e.formFields]] : []))
+);
 
 const num = (v: string | undefined): number | string | undefined => {
 	if (v === undefined || v.trim() === '') return undefined;

@@ -1,7 +1,7 @@
 import type { Role } from '$lib/schemas';
-import { fail4xx } from './api';
-import type { Db } from './db';
-import { newSecret, sha256 } from './tokens';
+import { fail4xx } from '../api';
+import type { Db } from '../db';
+import { newSecret, sha256 } from '../tokens';
 
 const INVITE_DAYS = 7;
 

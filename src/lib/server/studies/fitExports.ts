@@ -1,13 +1,13 @@
 // Exports of a fit in the formats the export routes serve: the fit file
 // (JSON), generated Python and TypeScript, and a dense CSV sampling of
 // x, f, f′, f″. The document itself is built by $lib/numerics/export.
-import { csvText } from '$lib/csv';
+import { csvText } from '../../csv';
 import { z } from 'zod';
-import { CAUTION } from '$lib/caution';
-import { createFitExport, fitExportText, generatePython, generateTypeScript, type FitExport, type FitExportSource } from '$lib/numerics/export';
-import { fitFromJSON, isSurfaceFitFile, surfaceFromJSON } from '$lib/numerics/fits';
-import { fail4xx } from './api';
-import { version as KINKLESS_VERSION } from '../../../package.json';
+import { CAUTION } from '../../caution';
+import { createFitExport, fitExportText, generatePython, generateTypeScript, type FitExport, type FitExportSource } from '../../numerics/export';
+import { fitFromJSON, isSurfaceFitFile, surfaceFromJSON } from '../../numerics/fits';
+import { fail4xx } from '../api';
+import { version as KINKLESS_VERSION } from '../../../../package.json';
 
 export const EXPORT_FORMATS = ['json', 'python', 'typescript', 'csv'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];

@@ -1,7 +1,7 @@
 // The one place role checks live; every load, action and API route calls it.
 import type { Role } from '$lib/schemas';
-import { fail4xx } from './api';
-import { db, type Db } from './db';
+import { fail4xx } from '../api';
+import { db, type Db } from '../db';
 
 const RANK: Record<Role, number> = { viewer: 1, editor: 2, owner: 3 };
 

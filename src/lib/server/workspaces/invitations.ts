@@ -1,8 +1,8 @@
 import type { Role } from '$lib/schemas';
 import type { Access } from './access';
-import { db } from './db';
-import { actionMail } from './mail';
-import * as workspaces from './workspaces';
+import { db } from '../db';
+import { actionMail } from '../mail';
+import * as workspaces from './store';
 
 /** Owners invite by e-mail with a role; the link works once, for seven days. */
 export async function inviteMember(access: Access, email: string, role: Role, origin: string): Promise<void> {

@@ -1,13 +1,13 @@
 // A quick fit of one output of a curve dataset: the fit sampled densely with
 // f′ and f″, its smoothness audit and its fidelity, for the dataset page.
 import { z } from 'zod';
-import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview } from '$lib/fitMethods';
-import type { CurveFitOptions, FitErrorCode } from '$lib/numerics/fits';
-import { fail4xx } from './api';
-import { formatBudget, PREVIEW_BUDGET_MS } from './offload/limits';
-import { OffloadBusy, OffloadOverBudget, runOffThread } from './offload/pool';
-import type { BuildResult, FitProblem, FitTask, PreviewResult } from './offload/fitWork';
-import type { DatasetMeta } from './datasetStore';
+import { CURVE_METHOD_CHOICES, CURVE_METHOD_IDS, EXTRAPOLATIONS, type FitPreview } from '../../fitMethods';
+import type { CurveFitOptions, FitErrorCode } from '../../numerics/fits';
+import { fail4xx } from '../api';
+import { formatBudget, PREVIEW_BUDGET_MS } from '../offload/limits';
+import { OffloadBusy, OffloadOverBudget, runOffThread } from '../offload/pool';
+import type { BuildResult, FitProblem, FitTask, PreviewResult } from '../offload/fitWork';
+import type { DatasetMeta } from './store';
 
 const MAX_AT = 1000;
 const MAX_DEGREE = 30;

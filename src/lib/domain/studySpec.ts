@@ -1,7 +1,7 @@
 /** What a study stores about its request (`studies.spec`), with defaults filled in. */
-import type { SurfaceFitOptions } from '../../numerics/fits/surfaceTypes';
-import type { CurveFitOptions } from '../../numerics/fits/types';
-import type { OptimizeOptions, OptimizerName, ProblemKind } from '../../numerics/optimize/types';
+import type { SurfaceFitOptions } from '../numerics/fits/surfaceTypes';
+import type { CurveFitOptions } from '../numerics/fits/types';
+import type { OptimizeOptions, OptimizerName, ProblemKind } from '../numerics/optimize/types';
 import type { ConstraintOp } from './problem';
 
 export interface StudySpec {

@@ -1,5 +1,5 @@
 import { generateIdFromEntropySize } from 'lucia';
-import type { Db } from './db';
+import type { Db } from '../db';
 import { hashPassword } from './auth';
 
 export type UserRow = { id: string; email: string; name: string; password_hash: string; created_at: Date };

@@ -8,12 +8,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { Knex } from 'knex';
-import { CAUTION } from '$lib/caution';
-import { fitFromJSON } from '$lib/numerics/fits';
-import { fail4xx } from './api';
-import { scorecard } from './studies/scorecard';
-import * as store from './studies/store';
-import { version as KINKLESS_VERSION } from '../../../package.json';
+import { CAUTION } from '../../caution';
+import { fitFromJSON } from '../../numerics/fits';
+import { fail4xx } from '../api';
+import { scorecard } from './scorecard';
+import * as store from './store';
+import { version as KINKLESS_VERSION } from '../../../../package.json';
 
 const CHROMIUM = process.env.KINKLESS_CHROMIUM ?? '/usr/bin/chromium';
 const PDF_TIMEOUT_MS = 60_000;
