@@ -317,6 +317,27 @@ describe('the same map without the constraint: BFGS and Newton from a Latin hype
 	});
 });
 
+describe('the study page and the record for several inputs', () => {
+	it('state the problem over every input, and the scorecard separates optima in both inputs', async () => {
+		const s = studies.mapC;
+		const page = await t.viewer.client.get(`/w/${t.ws.slug}/studies/${s.body.id}`);
+		expect(page.status).toBe(200);
+		const html = await page.text();
+		expect(html).toContain('Maximize eta [-] for T in [1, 9], w in [1, 5.5] subject to P ≥ 3');
+		// not-a-knot: every start converges to the one constrained optimum
+		const row = s.body.scorecard.find((r) => r.method === 'grid-cubic-not-a-knot') as StudyBody['scorecard'][number] & { optima: { point: number[] }[]; spread: { inputs: number[] } };
+		expect(row.optima).toHaveLength(1);
+		expect(dist(row.optima[0].point, ref.mapC)).toBeLessThan(0.05);
+		expect(row.spread.inputs).toHaveLength(2);
+		for (const v of row.spread.inputs) expect(v).toBeLessThan(1e-4);
+		const rec = await t.viewer.client.get(`/w/${t.ws.slug}/studies/${s.body.id}/record`);
+		expect(rec.status).toBe(200);
+		const doc = await rec.text();
+		expect(doc).toMatch(/maximize eta over T in \[1, 9\], w in \[1, 5\.5\], subject to P &gt;= 3/);
+		expect(doc).toMatch(/against T at w = /);
+	});
+});
+
 describe('studies over 3 inputs', () => {
 	it('bounds per input with one active (z ≥ 1): BFGS and Newton on the smooth fits converge to SciPy’s bounded optimum', () => {
 		const s = studies.cubeB;

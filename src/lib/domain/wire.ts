@@ -107,8 +107,8 @@ export interface ScorecardRow {
 	atKink: number;
 	/** runs whose end point lies outside the data's range (on the fit's extrapolation) */
 	outsideData: number;
-	/** range of x* and of f* over the converged runs */
-	spread: { x: number; f: number } | null;
+	/** range of x* (first input) and of f* over the converged runs; `inputs`: the range of each input (two or more inputs) */
+	spread: { x: number; f: number; inputs?: number[] } | null;
 	reference: { x: number[] | null; f: number | null } | null;
 	/** how far the best end point is from the reference: |Δx| and the shortfall in f (0 when it matches or beats it) */
 	gap: { x: number | null; f: number } | null;
@@ -117,8 +117,8 @@ export interface ScorecardRow {
 	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
 	/** whole-curve monotonicity when the data are monotone, else per monotone stretch of the data */
 	monotone: Monotone;
-	/** separate places the converged runs ended (first coordinate), with the share of converged runs at each */
-	optima: { x: number; share: number }[] | null;
+	/** separate places the converged runs ended (first coordinate; `point`: every input, for two or more), with the share of converged runs at each */
+	optima: { x: number; point?: number[]; share: number }[] | null;
 	verdict: Verdict;
 }
 
@@ -150,5 +150,5 @@ export interface StudyPage {
 	fits: StudyFit[];
 	scorecard: ScorecardRow[];
 	runs: RunColumns | null;
-	data: { x: number[]; y: number[] } | null;
+	data: { x: number[]; y: number[]; inputs?: number[][] } | null;
 }

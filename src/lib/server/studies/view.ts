@@ -63,17 +63,21 @@ export async function studyPage(db: Db, study: Study): Promise<StudyPage> {
 	]);
 	let data: StudyPage['data'] = null;
 	if (dataset) {
-		const xi = dataset.columns.findIndex((c) => c.role === 'input');
+		const inputIdx = dataset.columns.flatMap((c, j) => (c.role === 'input' ? [j] : []));
+		const xi = inputIdx[0] ?? -1;
 		const yi = dataset.columns.findIndex((c) => c.name === study.output);
 		if (xi >= 0 && yi >= 0) {
 			const step = Math.max(1, Math.ceil(dataset.rowCount / CHART_POINTS));
 			const x: number[] = [];
 			const y: number[] = [];
+			const inputs: number[][] = inputIdx.map(() => []);
 			for (let i = 0; i < dataset.rowCount; i += step) {
 				x.push(dataset.data[xi][i]);
 				y.push(dataset.data[yi][i]);
+				if (inputIdx.length > 1) inputIdx.forEach((j, k) => inputs[k].push(dataset.data[j][i]));
 			}
-			data = { x, y };
+			// tables of several inputs: every input column too (the end-point charts draw the data points in the inputs' plane)
+			data = inputIdx.length > 1 ? { x, y, inputs } : { x, y };
 		}
 	}
 	return {

@@ -1,0 +1,77 @@
+// The seeded demo study over two inputs (the invented motor map, torque ×
+// speed) in Debian's Chromium: the problem over both inputs, the scorecard
+// with the bilinear fit last, the end points drawn in the inputs' plane, the
+// runs with both coordinates; screenshots at 1440 and 390 px under
+// .data/screenshots/ (no sideways scroll at 390).
+import { mkdirSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext, Page } from 'playwright-core';
+import { launch } from './browser';
+
+const SHOTS = '.data/screenshots';
+let context: BrowserContext;
+let close: () => Promise<void>;
+
+beforeAll(async () => {
+	({ context, close } = await launch());
+	expect((await context.request.post('/api/v1/session', { data: { email: 'demo@larkmoor.example', password: 'larkmoor-demo-2026' } })).status()).toBe(200);
+});
+afterAll(async () => {
+	await close?.();
+});
+
+async function shots(page: Page, name: string) {
+	mkdirSync(SHOTS, { recursive: true });
+	for (const width of [1440, 390]) {
+		await page.setViewportSize({ width, height: 900 });
+		await page.waitForLoadState('networkidle');
+		await page.screenshot({ path: `${SHOTS}/${name}-${width}.png`, fullPage: true });
+		if (width === 390) {
+			const wide = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+			expect(wide, 'sideways scroll at 390 px').toBeLessThanOrEqual(1);
+		}
+	}
+}
+
+describe('the demo study over torque × speed', () => {
+	it('is finished: the bilinear fit stalls on grid lines, every run on the smooth fits converges (runs API)', async () => {
+		const list = (await (await context.request.get('/api/v1/workspaces/larkmoor-aero/studies')).json()) as { studies: { id: string; name: string; status: string }[] };
+		const study = list.studies.find((s) => s.name === 'Motor: peak efficiency over torque × speed');
+		expect(study?.status).toBe('done');
+		const { runs } = (await (await context.request.get(`/api/v1/studies/${study!.id}/runs`)).json()) as { runs: { method: string; outcome: string; atKink: boolean; x: number[] }[] };
+		expect(runs).toHaveLength(5 * 2 * 20);
+		const torqueNodes = [5, 10, 20, 30, 40, 55, 70, 85];
+		const speedNodes = [500, 1000, 1500, 2000, 2500, 3000, 3500, 4000];
+		for (const r of runs) {
+			if (r.method === 'grid-linear') {
+				expect(r.outcome === 'stalled' && r.atKink, `${r.outcome} at (${r.x})`).toBe(true);
+				// at a kink: on a grid line of torque or of speed (the data's own values)
+				expect(torqueNodes.some((v) => Math.abs(v - r.x[0]) < 1e-4) || speedNodes.some((v) => Math.abs(v - r.x[1]) < 1e-2)).toBe(true);
+			} else expect(r.outcome, r.method).toBe('converged');
+		}
+	});
+
+	it('shows the problem over both inputs, the scorecard, the end points in the plane and the runs', async () => {
+		const page = await context.newPage();
+		await page.goto('/w/larkmoor-aero');
+		await page.getByRole('link', { name: 'Motor: peak efficiency over torque × speed' }).click();
+		await page.getByRole('heading', { name: /^Picked: grid-/ }).waitFor();
+		await expect(page.getByTestId('problem').textContent()).resolves.toMatch(/^Maximize efficiency \[-\] for torque in \[5, 85\], speed in \[3500, 4000\]\.$/);
+		// the bilinear fit ranks last: its runs stall on grid lines
+		const rows = page.locator('table').first().locator('tbody tr');
+		await expect(rows.count()).resolves.toBe(10);
+		await expect(rows.last().textContent()).resolves.toMatch(/grid-linear/);
+		await expect(rows.last().locator('[data-testid="other-outcomes"]').textContent()).resolves.toMatch(/at a kink/);
+		for (const row of await rows.filter({ hasText: 'grid-cubic-not-a-knot' }).all()) await expect(row.textContent()).resolves.toMatch(/100%/);
+		// one chart per fit, drawn over torque and speed
+		const charts = page.getByTestId('end-point-charts').locator('figure');
+		await expect(charts.count()).resolves.toBe(5);
+		await expect(charts.first().locator('svg').first().textContent()).resolves.toMatch(/speed \[rpm\]/);
+		// runs list both coordinates under named headings
+		const runs = page.getByTestId('runs');
+		await expect(runs.locator('thead').textContent()).resolves.toContain('(torque, speed)');
+		await expect(runs.locator('tbody tr').first().locator('td').nth(6).textContent()).resolves.toMatch(/^[-\d.e]+, [-\d.e]+$/);
+		await shots(page, 'demo-motor-study');
+		await page.close();
+	});
+});
