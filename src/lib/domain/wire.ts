@@ -152,3 +152,32 @@ export interface StudyPage {
 	runs: RunColumns | null;
 	data: { x: number[]; y: number[]; inputs?: number[][] } | null;
 }
+
+/** The dataset page's fit preview of a grid or scattered table (`POST /api/v1/datasets/:id/fit-preview` on a dataset of two or more inputs). */
+export interface SurfacePreview {
+	method: string;
+	dimension: number;
+	domain: [number, number][];
+	through: number[];
+	continuity: {
+		declared: string;
+		measured: string;
+		/** per input: the class measured along it and (grid fits) its worst grid lines, largest slope jump first */
+		perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number }[];
+	};
+	fidelity: {
+		/** 'grid-lines': interior grid lines left out one at a time and predicted; 'rippa': RBF leave-one-out in closed form */
+		method: 'grid-lines' | 'rippa' | 'none';
+		looRmse: number | null;
+		looMax: number | null;
+		worstAt: number[] | null;
+		points: number;
+		/** RBF: estimate of the condition number of the solved system */
+		condition: number | null;
+	};
+	/** f over inputs map[0] × map[1] (the others at `through`); f[j][i] at (x[i], y[j]); null outside the data under the refuse rule */
+	map: { inputs: [number, number]; x: number[]; y: number[]; f: (number | null)[][] };
+	/** along each input through `through`: value and slope along it */
+	slices: { input: number; x: number[]; f: (number | null)[]; df: (number | null)[] }[];
+	notes: string[];
+}
