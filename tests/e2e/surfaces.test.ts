@@ -1,7 +1,8 @@
-// The seeded demo study over two inputs (the invented motor map, torque ×
-// speed) in Debian's Chromium: the problem over both inputs, the scorecard
-// with the bilinear fit last, the end points drawn in the inputs' plane, the
-// runs with both coordinates; screenshots at 1440 and 390 px under
+// The invented demo motor map (torque × speed) in Debian's Chromium: its
+// seeded study — the problem over both inputs, the scorecard with the
+// bilinear fit last, the end points drawn in the inputs' plane, the runs with
+// both coordinates — and the dataset page's fit preview of the grid (map,
+// slices, audit per input, fidelity). Screenshots at 1440 and 390 px under
 // .data/screenshots/ (no sideways scroll at 390).
 import { mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -72,6 +73,31 @@ describe('the demo study over torque × speed', () => {
 		await expect(runs.locator('thead').textContent()).resolves.toContain('(torque, speed)');
 		await expect(runs.locator('tbody tr').first().locator('td').nth(6).textContent()).resolves.toMatch(/^[-\d.e]+, [-\d.e]+$/);
 		await shots(page, 'demo-motor-study');
+		await page.close();
+	});
+});
+
+describe('the fit preview of the demo motor map', () => {
+	it('maps the fit, slices it through a chosen point, audits each input and shows the leave-one-out fidelity', async () => {
+		const page = await context.newPage();
+		await page.goto('/w/larkmoor-aero');
+		await page.getByRole('link', { name: 'Motor efficiency map' }).click();
+		await page.getByRole('heading', { level: 1, name: 'Motor efficiency map' }).waitFor();
+		// the default: not-a-knot, C2 along both inputs
+		await page.getByTestId('preview-map').locator('svg image').first().waitFor();
+		await expect(page.getByTestId('measured').textContent()).resolves.toBe('C2');
+		await expect(page.getByTestId('audit-per-input').locator('tbody tr').count()).resolves.toBe(2);
+		await expect(page.getByTestId('preview-slices').locator('figure').count()).resolves.toBe(4);
+		await expect(page.getByTestId('loo-rmse').textContent()).resolves.toMatch(/^\d/);
+		// the bilinear fit: C0, every interior grid line a kink, drawn on the map
+		await page.getByLabel('Method').selectOption('grid-linear');
+		await page.getByText('Showing grid-linear').waitFor();
+		await expect(page.getByTestId('measured').textContent()).resolves.toBe('C0');
+		await expect(page.getByTestId('audit-per-input').locator('tbody tr').first().locator('td').nth(2).textContent()).resolves.toBe('6');
+		// slices through a chosen point
+		await page.getByTestId('through-1').fill('3750');
+		await page.getByText(/Slices through torque = 45, speed = 3750/).waitFor();
+		await shots(page, 'demo-motor-preview');
 		await page.close();
 	});
 });

@@ -22,7 +22,7 @@ type Preview = {
 	dimension: number;
 	domain: [number, number][];
 	through: number[];
-	continuity: { declared: string; measured: string; perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number }[] };
+	continuity: { declared: string; measured: string; perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number; kinkAt: number[] }[] };
 	fidelity: { method: string; looRmse: number | null; looMax: number | null; worstAt: number[] | null; points: number; condition: number | null };
 	map: { inputs: [number, number]; x: number[]; y: number[]; f: (number | null)[][] };
 	slices: { input: number; x: number[]; f: (number | null)[]; df: (number | null)[] }[];
@@ -76,6 +76,7 @@ describe('the fit preview of a grid', () => {
 		for (const [k, axis] of [T_AXIS, W_AXIS].entries()) {
 			const c = p.continuity.perInput[k];
 			expect(c.kinks).toBe(axis.length - 2); // every interior line of a curved surface is a kink of the bilinear fit
+			expect(c.kinkAt).toEqual(axis.slice(1, -1));
 			expect(c.worst.length).toBeGreaterThan(0);
 			for (const l of c.worst) {
 				expect(axis.slice(1, -1)).toContain(l.at);
@@ -106,6 +107,7 @@ out = g(np.stack([X.ravel(), Y.ravel()], axis=1)).reshape(X.shape)`,
 		expect(status, JSON.stringify(p)).toBe(200);
 		expect(p.continuity.perInput.map((c) => c.measured)).toEqual(['C2', 'C2']);
 		expect(p.continuity.perInput.map((c) => c.kinks)).toEqual([0, 0]);
+		expect(p.continuity.perInput.map((c) => c.kinkAt)).toEqual([[], []]);
 		expect(p.fidelity.method).toBe('grid-lines');
 		expect(p.fidelity.points).toBeGreaterThan(0);
 		expect(p.fidelity.looRmse!).toBeLessThan(1e-12);

@@ -295,6 +295,10 @@ describe('the same map without the constraint: BFGS and Newton from a Latin hype
 		}
 		const linearFit = studies.mapU.body.fits.find((f) => f.method === 'grid-linear')!;
 		expect(linearFit.continuity.measured).toBe('C0');
+		// fidelity by leaving grid lines out: the not-a-knot fit reproduces the quadratic map exactly, the bilinear fit does not
+		const nak = studies.mapU.body.fits.find((f) => f.method === 'grid-cubic-not-a-knot')!;
+		expect(nak.fidelity?.looRmse).toBeLessThan(1e-12);
+		expect(linearFit.fidelity?.looRmse).toBeGreaterThan(1e-4);
 	});
 
 	it('exports a surface fit as CSV samples over both inputs (values and gradients of the fit itself) and as code', async () => {

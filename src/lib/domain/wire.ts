@@ -163,7 +163,7 @@ export interface SurfacePreview {
 		declared: string;
 		measured: string;
 		/** per input: the class measured along it and (grid fits) its worst grid lines, largest slope jump first */
-		perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number }[];
+		perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number; kinkAt: number[] }[];
 	};
 	fidelity: {
 		/** 'grid-lines': interior grid lines left out one at a time and predicted; 'rippa': RBF leave-one-out in closed form */

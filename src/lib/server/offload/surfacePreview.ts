@@ -7,10 +7,10 @@
  * (grid lines left out for grid fits; Rippa's closed form for RBF fits).
  * Answers plain data and never throws for a user's mistake.
  */
-import { auditSurfaceFidelity, auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
+import { auditGridFitFidelity, auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
 import { FitError } from '../../numerics/fits/FitError';
 import { TensorGrid } from '../../numerics/fits/TensorGrid';
-import type { GridMethod, SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
+import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
 import type { SurfacePreview } from '../../domain/wire';
 import type { FitProblem } from './fitWork';
 import { fitSurfaceTable, surfaceSizeProblem } from './surfaceWork';
@@ -43,17 +43,9 @@ function linspace(lo: number, hi: number, n: number): number[] {
 	return Array.from({ length: n }, (_, i) => (i === n - 1 ? hi : lo + ((hi - lo) * i) / (n - 1)));
 }
 
-/** values at the grid nodes (slot 0 of each node for the cubic representation) */
-function nodeValues(fit: TensorGrid): Float64Array {
-	const stride = fit.cubic ? 1 << fit.dimension : 1;
-	const out = new Float64Array(fit.data.length / stride);
-	for (let i = 0; i < out.length; i++) out[i] = fit.data[i * stride];
-	return out;
-}
-
 function smoothness(fit: SurfaceFit): SurfacePreview['continuity'] {
 	if (!(fit instanceof TensorGrid)) {
-		return { declared: fit.continuity, measured: fit.continuity, perInput: fit.axisContinuity.map((c) => ({ declared: c, measured: c, worst: [], kinks: 0 })) };
+		return { declared: fit.continuity, measured: fit.continuity, perInput: fit.axisContinuity.map((c) => ({ declared: c, measured: c, worst: [], kinks: 0, kinkAt: [] })) };
 	}
 	const a = auditSurfaceSmoothness(fit, WORST_LINES);
 	return {
@@ -63,14 +55,15 @@ function smoothness(fit: SurfaceFit): SurfacePreview['continuity'] {
 			declared: fit.axisContinuity[k],
 			measured,
 			worst: a.worstLines[k].map((l) => ({ at: l.at, slopeJump: l.slopeJump, curvatureJump: l.curvatureJump })),
-			kinks: a.kinkLines[k].length
+			kinks: a.kinkLines[k].length,
+			kinkAt: a.kinkLines[k]
 		}))
 	};
 }
 
 function fidelity(fit: SurfaceFit): SurfacePreview['fidelity'] {
 	if (fit instanceof TensorGrid) {
-		const f = auditSurfaceFidelity(fit.method as GridMethod, fit.axes, nodeValues(fit));
+		const f = auditGridFitFidelity(fit);
 		return { method: 'grid-lines', looRmse: f.count ? f.rms : null, looMax: f.count ? f.max : null, worstAt: f.count ? f.worstAt : null, points: f.count, condition: null };
 	}
 	const loo = fit.stats.looResiduals;
