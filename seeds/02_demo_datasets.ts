@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { mulberry32 } from '../src/lib/numerics/math';
 import { parseTable } from '../src/lib/server/datasets/parseTable';
-import { sha256 } from '../src/lib/server/datasets/sha256';
+import { sha256 } from '../src/lib/server/tokens';
 import type { Role } from '../src/lib/server/datasets/types';
 import { validateTable } from '../src/lib/server/datasets/validateTable';
 import { create } from '../src/lib/server/datasets/store';

@@ -3,9 +3,9 @@
 import { CURVE_METHOD_CATALOGUE, type CurveOption } from './domain/methods';
 import type { Continuity, CurveMethod } from '$lib/numerics/fits';
 
-export type PreviewOption = CurveOption;
+type PreviewOption = CurveOption;
 
-export interface CurveMethodChoice {
+interface CurveMethodChoice {
 	id: CurveMethod;
 	label: string;
 	/** the class the method promises */

@@ -25,7 +25,6 @@ export const signInSchema = z.object({
 	password: z.string({ error: 'password is required' }).min(1, { error: 'password is required' }).max(256, { error: 'password must be at most 256 characters' })
 });
 export const resetRequestSchema = z.object({ email });
-export const resetConfirmSchema = z.object({ token: z.string().min(10).max(200), password: newPassword });
 export const workspaceCreateSchema = z.object({
 	name: z.string().trim().min(2, { error: 'workspace name must be at least 2 characters' }).max(80, { error: 'workspace name must be at most 80 characters' })
 });

@@ -33,7 +33,7 @@ import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { fitCurve } from '../../src/lib/numerics/fits';
 import type { CurveMethod } from '../../src/lib/numerics/fits';
-import { PiecewisePolynomial } from '../../src/lib/numerics/fits/PiecewisePolynomial';
+import { PiecewisePolynomial } from '../../src/lib/numerics/fits/piecewisePolynomial';
 import { mulberry32 } from '../../src/lib/numerics/math';
 
 const PYTHON = '/usr/bin/python3';

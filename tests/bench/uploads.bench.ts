@@ -23,7 +23,7 @@ import os from 'node:os';
 import path from 'node:path';
 import ExcelJS from 'exceljs';
 import JSZip from 'jszip';
-import { DatasetError } from '../../src/lib/server/datasets/DatasetError';
+import { DatasetError } from '../../src/lib/server/datasets/datasetError';
 import { parseWorkbook } from '../../src/lib/server/datasets/parseWorkbook';
 import { parseDelimited } from '../../src/lib/server/datasets/parseDelimited';
 

@@ -1,6 +1,7 @@
 // Shared set-up for the study integration tests: a team with every role, an
 // invented coarse curve dataset created through the datasets API, and helpers
 // that wait on a study through the studies API.
+import type { RunRow } from '../../src/lib/domain/wire';
 import { expect } from 'vitest';
 import { Client, json, newUser, newWorkspace, testDb } from './client';
 
@@ -28,21 +29,8 @@ export type StudyBody = {
 	fits: { id: string; method: string; continuity: { declared: string; measured: string | null }; fidelity: { looRmse?: number } | null; reference: { x: number[] | null; f: number | null } | null }[];
 	error: string | null;
 };
-export type RunBody = {
-	id: string;
-	fitId: string;
-	method: string;
-	optimizer: string;
-	start: number[];
-	outcome: string;
-	atKink: boolean;
-	iterations: number;
-	evaluations: { f: number; grad: number };
-	x: number[];
-	f: number | null;
-	gradNorm: number | null;
-	ms: number;
-};
+/** A run as the API sends it (the shape lives in domain/wire.ts). */
+export type RunBody = RunRow;
 
 /**
  * INVENTED table (not measured): a coarse propeller sweep, efficiency and

@@ -3,7 +3,7 @@
 // so a first study asks what the data were recorded for rather than pinning a
 // maximum at a bound. Only a default: every field stays the user's to change.
 
-export interface ProblemGuess {
+interface ProblemGuess {
 	kind: 'maximize' | 'minimize' | 'solve';
 	/** the target of a solve, when the description names one */
 	target: string | null;

@@ -19,7 +19,7 @@ export const TRANSITIONS: Readonly<Record<StudyStatus, readonly StudyStatus[]>> 
 	cancelled: []
 };
 
-export type ActiveStatus = (typeof ACTIVE_STATUSES)[number];
+type ActiveStatus = (typeof ACTIVE_STATUSES)[number];
 
 /** the one test of "still has work to do" */
 export const isActive = (status: string | null | undefined): status is ActiveStatus => (ACTIVE_STATUSES as readonly string[]).includes(status ?? '');

@@ -7,7 +7,7 @@
 import type { Continuity, CurveMethod } from '../numerics/fits/types';
 import type { OptimizerName } from '../numerics/optimize/types';
 
-export interface MethodEntry {
+interface MethodEntry {
 	label: string;
 	note: string;
 }

@@ -43,7 +43,7 @@ function nearKink(kinks: Float64Array, x: number, tol: number): boolean {
 
 const OP_LABEL: Record<ConstraintOp, string> = { '<=': '≤', '>=': '≥', '=': '=' };
 
-export function constraintOf(fit: CurveFit, c: ProblemSpec['constraints'][number]): Constraint {
+function constraintOf(fit: CurveFit, c: ProblemSpec['constraints'][number]): Constraint {
 	const sign = c.op === '>=' ? -1 : 1;
 	return {
 		kind: c.op === '=' ? 'eq' : 'ineq',

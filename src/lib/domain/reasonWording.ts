@@ -25,7 +25,7 @@ export interface ReasonContext {
 	method?: string;
 }
 
-export interface RawRun {
+interface RawRun {
 	outcome: string;
 	reason: string;
 	x: number[];

@@ -7,8 +7,8 @@
  * smoothness audit, not assumed from the method).
  */
 import { auditSurfaceSmoothness } from '../numerics/audit/surfaceAudit';
-import { TensorGrid } from '../numerics/fits/TensorGrid';
-import { FitError } from '../numerics/fits/FitError';
+import { TensorGrid } from '../numerics/fits/tensorGrid';
+import { FitError } from '../numerics/fits/fitError';
 import type { SurfaceFit } from '../numerics/fits/surfaceTypes';
 import type { Constraint, Objective, Problem } from '../numerics/optimize/types';
 import type { ConstraintOp, ProblemSpec } from './problem';

@@ -20,9 +20,9 @@
  * the rule, in VERDICT_RULE.
  */
 
-export type ConcernClass = 'minor' | 'trap' | 'unfaithful';
+type ConcernClass = 'minor' | 'trap' | 'unfaithful';
 
-export interface Concern {
+interface Concern {
 	code: 'far-from-data' | 'overshoot' | 'split' | 'kink-trap' | 'fails' | 'rings' | 'less-faithful' | 'kinked' | 'stops-early' | 'short-of-reference' | 'not-monotone' | 'outside-data';
 	class: ConcernClass;
 	/** a short phrase in plain words, for the verdict column */
@@ -159,7 +159,7 @@ function headline(concerns: Concern[], worst: ConcernClass | null): string {
 }
 
 /** What ranking needs of a row beyond its verdict. */
-export interface Rankable {
+interface Rankable {
 	method: string;
 	optimizerIndex: number;
 	successRate: number;

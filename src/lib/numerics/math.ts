@@ -3,16 +3,8 @@
  * Plain TypeScript: no DOM, server or framework imports.
  */
 
-/** Unit roundoff of IEEE-754 binary64 (2^-52). */
-export const EPSILON = Number.EPSILON;
-/** √ε: the natural relative step for one-sided differences. */
-export const SQRT_EPSILON = Math.sqrt(Number.EPSILON);
-/** ∛ε: the step that balances truncation and rounding in a central difference. */
-export const CBRT_EPSILON = Math.cbrt(Number.EPSILON);
 /** ε^(1/5): the step for a Richardson-extrapolated central difference. */
 export const FIFTH_ROOT_EPSILON = Math.pow(Number.EPSILON, 0.2);
-/** ε^(1/4): the step for a central second difference. */
-export const QRT_EPSILON = Math.sqrt(Math.sqrt(Number.EPSILON));
 
 /**
  * Seeded pseudo-random numbers in [0, 1): Mulberry32 (T. Ettinger, 2017, public domain).
@@ -49,4 +41,16 @@ export function polynomialLimit(a: ArrayLike<number>, sign: 1 | -1): number {
 	while (k > 0 && a[k] === 0) k--;
 	if (k < 0) return 0;
 	return k === 0 ? a[0] : Math.sign(a[k]) * sign ** k * Infinity;
+}
+
+/**
+ * The array form of a strided slope solver: `fill` writes n values to
+ * buf[2i] with buf[2i + 1] as its scratch; the values come back on their own.
+ */
+export function stridedValues(n: number, fill: (buf: Float64Array) => void): Float64Array {
+	const buf = new Float64Array(2 * n);
+	fill(buf);
+	const t = new Float64Array(n);
+	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
+	return t;
 }

@@ -10,7 +10,7 @@ const FROM = process.env.MAIL_FROM ?? 'Kinkless <no-reply@kinkless.localhost>';
 let transporter: Transporter | null = null;
 let catcher: SMTPServer | null = null;
 
-export const catchingMail = () => !process.env.SMTP_URL;
+const catchingMail = () => !process.env.SMTP_URL;
 
 const LOOPBACK = new Set(['127.0.0.1', 'localhost', '[::1]', '::1']);
 
@@ -92,7 +92,7 @@ export const listCaughtFor = (email: string, limit = 100) =>
 		.orderBy('id', 'desc')
 		.limit(limit).select<{ id: number; received_at: Date; mail_from: string; rcpt_to: string[]; subject: string; text: string }[]>('id', 'received_at', 'mail_from', 'rcpt_to', 'subject', 'text');
 
-export function escapeHtml(s: string): string {
+function escapeHtml(s: string): string {
 	return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { datasetJsonSchema } from '../../../src/lib/server/datasets/datasetJsonSchema';
-import { sha256 } from '../../../src/lib/server/datasets/sha256';
+import { sha256 } from '../../../src/lib/server/tokens';
 import { parseDatasetJson, tableFromJson } from '../../../src/lib/server/datasets/tableFromJson';
 import { validateTable } from '../../../src/lib/server/datasets/validateTable';
 import { expectDatasetError } from './helpers';

@@ -1,6 +1,6 @@
 import ExcelJS from 'exceljs';
 import { expect } from 'vitest';
-import { DatasetError } from '../../../src/lib/server/datasets/DatasetError';
+import { DatasetError } from '../../../src/lib/server/datasets/datasetError';
 import { parseTable } from '../../../src/lib/server/datasets/parseTable';
 import type { ParsedTable } from '../../../src/lib/server/datasets/types';
 

@@ -1,5 +1,5 @@
 /** Small helpers for the curve-fit tests (not tests themselves). */
-import { PiecewisePolynomial } from '../../../src/lib/numerics/fits/PiecewisePolynomial';
+import { PiecewisePolynomial } from '../../../src/lib/numerics/fits/piecewisePolynomial';
 import type { CurveFit } from '../../../src/lib/numerics/fits/types';
 
 /** Global maximum and minimum of a piecewise polynomial over its domain, from the analytic zeros of f′. */

@@ -1,16 +1,8 @@
 /** Shared helpers for the surface tests: a seeded generator, uneven axes, tabulation on a grid. */
+import { mulberry32 } from '../../../src/lib/numerics/math';
 
-/** mulberry32, a small seeded generator (common practice, no source) — tests must be repeatable. */
-export function rng(seed: number): () => number {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
+/** mulberry32 (the project's seeded generator, numerics/math.ts): tests must be repeatable. */
+export const rng = mulberry32;
 
 /** n strictly increasing values from lo to hi with uneven spacing. */
 export function unevenAxis(n: number, lo: number, hi: number, seed: number): number[] {

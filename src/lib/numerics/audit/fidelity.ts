@@ -28,7 +28,7 @@
  *   piece; the worst relative mismatch is reported.
  */
 import { fitCurve } from '../fits/fitCurve';
-import { PiecewisePolynomial } from '../fits/PiecewisePolynomial';
+import { PiecewisePolynomial } from '../fits/piecewisePolynomial';
 import { prepareData } from '../fits/prepareData';
 import type { CurveFit } from '../fits/types';
 import { FIFTH_ROOT_EPSILON, mulberry32 } from '../math';

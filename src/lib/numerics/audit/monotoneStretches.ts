@@ -16,7 +16,7 @@
  */
 import type { CurveFit } from '../fits/types';
 
-export interface MonotoneStretch {
+interface MonotoneStretch {
 	/** first and last data x of the stretch */
 	from: number;
 	to: number;

@@ -17,7 +17,7 @@
 import type { Continuity } from '../fits/types';
 import type { GridMethod } from '../fits/surfaceTypes';
 import { fitGrid } from '../fits/fitGrid';
-import type { TensorGrid } from '../fits/TensorGrid';
+import type { TensorGrid } from '../fits/tensorGrid';
 
 export interface LineJump {
 	/** input (0-based) and grid line index along it */

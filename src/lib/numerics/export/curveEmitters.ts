@@ -7,7 +7,7 @@
  * is written as code for that one rule only, which keeps the module short.
  */
 import { decodeArray, decodeNumber } from '../fits/fitFile';
-import { FitError } from '../fits/FitError';
+import { FitError } from '../fits/fitError';
 import { registerEmitter, type CodeEmitter, type EmitContext } from './emitters';
 import { pyFloat, tsNumber, wrapItems } from './literals';
 

@@ -16,7 +16,7 @@
  * around it by codegen.ts. Emitters may rely on `INPUT_NAMES`, `DOMAIN` and
  * `EXTRAPOLATION` being defined before their section (see codegen.ts).
  */
-import { FitError } from '../fits/FitError';
+import { FitError } from '../fits/fitError';
 
 export interface EmitContext {
 	/** names of the inputs, in the order evaluate(x) takes them */

@@ -27,15 +27,15 @@
  * Hashing uses the platform's Web Crypto (Node 20 and every current
  * browser), so this module stays framework-free.
  */
-import { FitError } from '../fits/FitError';
+import { FitError } from '../fits/fitError';
 import { fitFromJSON } from '../fits/fitCurve';
 import { fitFileObject } from '../fits/fitFile';
 import type { CurveFit } from '../fits/types';
 
-export const FIT_EXPORT_FORMAT = 'kinkless-fit-export';
-export const FIT_EXPORT_VERSION = 1;
+const FIT_EXPORT_FORMAT = 'kinkless-fit-export';
+const FIT_EXPORT_VERSION = 1;
 
-export interface ColumnLabel {
+interface ColumnLabel {
 	name: string;
 	unit: string | null;
 }
@@ -78,7 +78,7 @@ async function sha256Hex(text: string): Promise<string> {
 }
 
 /** The checksum a document should carry (its "checksum" key ignored). */
-export async function fitExportChecksum(doc: Omit<FitExport, 'checksum'> | FitExport): Promise<string> {
+async function fitExportChecksum(doc: Omit<FitExport, 'checksum'> | FitExport): Promise<string> {
 	const rest: Record<string, unknown> = { ...doc };
 	delete rest.checksum;
 	return `sha256:${await sha256Hex(canonicalJson(rest))}`;

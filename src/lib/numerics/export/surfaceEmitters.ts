@@ -7,7 +7,7 @@
  * platform's exp/log/sqrt.
  */
 import { decodeArray, decodeNumber } from '../fits/fitFile';
-import { FitError } from '../fits/FitError';
+import { FitError } from '../fits/fitError';
 import { registerEmitter, type CodeEmitter } from './emitters';
 import { pyFloat, tsNumber, wrapItems } from './literals';
 

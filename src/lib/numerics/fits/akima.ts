@@ -7,7 +7,7 @@
  * states an extrapolation rule instead of returning NaN outside the data.
  */
 import { akimaSlopesInto } from './akimaSlopes';
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -23,13 +23,9 @@
  */
 
 /** Akima (or modified Akima) knot slopes as a new array (see akimaSlopesInto). */
+import { stridedValues } from '../math';
 export function akimaSlopes(x: Float64Array, y: ArrayLike<number>, modified: boolean): Float64Array {
-	const n = x.length;
-	const buf = new Float64Array(2 * n);
-	akimaSlopesInto(x, y, modified, buf, 2, 0, 1);
-	const t = new Float64Array(n);
-	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
-	return t;
+	return stridedValues(x.length, (buf) => akimaSlopesInto(x, y, modified, buf, 2, 0, 1));
 }
 
 /**

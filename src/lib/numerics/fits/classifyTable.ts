@@ -5,7 +5,7 @@
  * cells are missing, the first missing cell is named so the user can fill it
  * in or choose to treat the table as scatter. Repeated cells are named too.
  */
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 
 export type TableShape =
 	| {

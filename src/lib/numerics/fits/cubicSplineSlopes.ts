@@ -14,6 +14,7 @@
  * a not-a-knot end row the next pivot is h_0 + h_1 > 0 (see the notes below).
  */
 
+import { stridedValues } from '../math';
 export type SplineEnd =
 	| { kind: 'natural' }
 	| { kind: 'not-a-knot' }
@@ -21,12 +22,7 @@ export type SplineEnd =
 
 /** The knot slopes as a new array (see cubicSplineSlopesInto). */
 export function cubicSplineSlopes(x: Float64Array, y: ArrayLike<number>, start: SplineEnd, end: SplineEnd): Float64Array {
-	const n = x.length;
-	const buf = new Float64Array(2 * n);
-	cubicSplineSlopesInto(x, y, start, end, buf, 2, 0, 1);
-	const t = new Float64Array(n);
-	for (let i = 0; i < n; i++) t[i] = buf[2 * i];
-	return t;
+	return stridedValues(x.length, (buf) => cubicSplineSlopesInto(x, y, start, end, buf, 2, 0, 1));
 }
 
 /**

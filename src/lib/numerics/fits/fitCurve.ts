@@ -3,21 +3,21 @@
  * from its fit file.
  */
 import { akima } from './akima';
-import { akimaModified } from './akima-modified';
-import { cubicClamped } from './cubic-clamped';
-import { cubicNatural } from './cubic-natural';
-import { cubicNotAKnot } from './cubic-not-a-knot';
+import { akimaModified } from './akimaModified';
+import { cubicClamped } from './cubicClamped';
+import { cubicNatural } from './cubicNatural';
+import { cubicNotAKnot } from './cubicNotAKnot';
 import { readFitFileHeader } from './fitFile';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import { linear } from './linear';
-import { localCubic } from './local-cubic';
-import { localQuadratic } from './local-quadratic';
+import { localCubic } from './localCubic';
+import { localQuadratic } from './localQuadratic';
 import { pchip } from './pchip';
-import { PiecewisePolynomial } from './PiecewisePolynomial';
-import { BarycentricPolynomial, polynomialGlobal } from './polynomial-global';
-import { ScaledPolynomial, polynomialLeastSquares } from './polynomial-least-squares';
-import { smoothingSpline } from './smoothing-spline';
-import { softenedLinear } from './softened-linear';
+import { PiecewisePolynomial } from './piecewisePolynomial';
+import { BarycentricPolynomial, polynomialGlobal } from './polynomialGlobal';
+import { ScaledPolynomial, polynomialLeastSquares } from './polynomialLeastSquares';
+import { smoothingSpline } from './smoothingSpline';
+import { softenedLinear } from './softenedLinear';
 import { isSurfaceFitFile } from './surfaceFile';
 import { CURVE_METHOD_CATALOGUE, type CurveMethodEntry } from '../../domain/methods';
 import type { CurveFit, CurveFitOptions, CurveMethod } from './types';

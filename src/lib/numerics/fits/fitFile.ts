@@ -33,13 +33,13 @@
  * "Infinity", "-Infinity". So toJSON → JSON.stringify → JSON.parse → fromJSON
  * is bit-exact.
  */
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import type { Continuity, CurveFitOptions, CurveMethod, Extrapolation, FitStats } from './types';
 
 export const FIT_FILE_FORMAT = 'kinkless-fit';
 export const FIT_FILE_VERSION = 1;
 
-export type EncodedNumber = number | '-0' | 'NaN' | 'Infinity' | '-Infinity';
+type EncodedNumber = number | '-0' | 'NaN' | 'Infinity' | '-Infinity';
 
 export interface FitFileBase {
 	format: typeof FIT_FILE_FORMAT;
@@ -187,4 +187,9 @@ export function readFitFileHeader(json: unknown): FitFileBase {
 	if (!Array.isArray(f.domain) || f.domain.length !== 2) throw new FitError('bad-fit-file', 'fit file: domain must be [lo, hi]');
 	if (!Array.isArray(f.notes)) throw new FitError('bad-fit-file', 'fit file: notes must be an array');
 	return f as unknown as FitFileBase;
+}
+
+/** The fields every fit file starts with: format, version, method, continuity and extrapolation rule. */
+export function fitFileEnvelope<M extends string, C extends string, E extends string>(fit: { method: M; continuity: C; extrapolation: E }): { format: typeof FIT_FILE_FORMAT; version: typeof FIT_FILE_VERSION; method: M; continuity: C; extrapolation: E } {
+	return { format: FIT_FILE_FORMAT, version: FIT_FILE_VERSION, method: fit.method, continuity: fit.continuity, extrapolation: fit.extrapolation };
 }

@@ -4,10 +4,10 @@
  */
 import { akimaSlopesInto } from './akimaSlopes';
 import { cubicSplineSlopesInto } from './cubicSplineSlopes';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import { pchipSlopesInto } from './pchip';
 import { prepareGrid } from './prepareGrid';
-import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './TensorGrid';
+import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './tensorGrid';
 import type { GridMethod, SurfaceFitOptions } from './surfaceTypes';
 import type { Continuity } from './types';
 

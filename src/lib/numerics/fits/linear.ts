@@ -3,7 +3,7 @@
  * A Practical Guide to Splines, Springer, chapter II. C0: the slope jumps at
  * every interior data point — the kinks this product exists to expose.
  */
-import { PiecewisePolynomial } from './PiecewisePolynomial';
+import { PiecewisePolynomial } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -18,7 +18,7 @@
  * it exceeds 3|m0| — the rule of SciPy's PchipInterpolator, which this matches
  * operation for operation.
  */
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -3,7 +3,7 @@
  * become sorted, finite, distinct Float64Arrays, or a FitError says which rows
  * are at fault (1-based, in the order the rows were given).
  */
-import { FitError, describeRows } from './FitError';
+import { FitError, describeRows } from './fitError';
 import type { CurveFitOptions } from './types';
 
 export interface PreparedData {
@@ -18,7 +18,7 @@ export interface PreparedData {
 	notes: string[];
 }
 
-export interface PrepareRules {
+interface PrepareRules {
 	/** the method's name, for messages */
 	label: string;
 	/** fewest distinct points the method needs */

@@ -4,8 +4,8 @@
  * (row-major: the last input varies fastest). A strictly decreasing axis is
  * reversed (with its values) and noted.
  */
-import { FitError, describeRows } from './FitError';
-import { GRID_MAX_INPUTS } from './TensorGrid';
+import { FitError, describeRows } from './fitError';
+import { GRID_MAX_INPUTS } from './tensorGrid';
 
 export interface PreparedGrid {
 	axes: Float64Array[];

@@ -17,10 +17,10 @@
  * surfaceFromJSON is bit-exact (numbers as in ./fitFile.ts).
  */
 import { FIT_FILE_FORMAT, FIT_FILE_VERSION, fitFileObject } from './fitFile';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import { isGridMethod } from './fitGrid';
-import { RadialBasis, isScatterMethod } from './RadialBasis';
-import { TensorGrid } from './TensorGrid';
+import { RadialBasis, isScatterMethod } from './radialBasis';
+import { TensorGrid } from './tensorGrid';
 import type { SurfaceFit } from './surfaceTypes';
 
 /** The fit-file representations of surface fits. */

@@ -30,7 +30,7 @@ import { conclude } from './secondOrder';
 import type { RunResult } from './types';
 import { wolfeLineSearch } from './wolfeLineSearch';
 
-export type DescentMethod = 'bfgs' | 'conjugate-gradient' | 'steepest-descent';
+type DescentMethod = 'bfgs' | 'conjugate-gradient' | 'steepest-descent';
 
 export function descend(run: Run, start: number[], method: DescentMethod): RunResult {
 	return run.guard(() => {

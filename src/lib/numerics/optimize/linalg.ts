@@ -49,17 +49,6 @@ export function identity(n: number, scale = 1): number[][] {
 	return m;
 }
 
-export function matVec(A: number[][], v: ArrayLike<number>): number[] {
-	const out = new Array<number>(A.length);
-	for (let i = 0; i < A.length; i++) out[i] = dot(A[i], v);
-	return out;
-}
-
-export function matrixFinite(A: number[][]): boolean {
-	for (const row of A) if (!allFinite(row)) return false;
-	return true;
-}
-
 /**
  * Solve A x = b by Gaussian elimination with partial pivoting (Golub & Van Loan,
  * Matrix Computations, 4th ed. 2013, Alg. 3.4.1). Returns null when a pivot is

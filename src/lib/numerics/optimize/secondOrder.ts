@@ -23,7 +23,7 @@ import { EPS, dot, nullSpaceBasis, norm2, normInf, symmetricEigen } from './lina
 import { fmt, type Point, type Run } from './run';
 import type { KktResiduals, Multipliers, RunResult } from './types';
 
-export interface SecondOrderContext {
+interface SecondOrderContext {
 	/** ∇L at a point (minimized sense); default: the point's gradient */
 	lagrangianGrad?: (p: Point) => number[];
 	/** L at a point; default: the point's f */

@@ -3,6 +3,7 @@
  * seeded Latin hypercube — the study API's `starts` field
  * (`{ points } | { grid: n } | { latinHypercube: n, seed }`).
  */
+import { mulberry32 } from '../math';
 
 export type StartSpec = { points: number[][] } | { grid: number } | { latinHypercube: number; seed: number };
 
@@ -11,21 +12,8 @@ export type Box = readonly (readonly [number, number])[];
 /** the most starts one specification may produce */
 export const MAX_STARTS = 100_000;
 
-/**
- * mulberry32: a 32-bit PRNG by Tommy Ettinger (public domain, 2017); small,
- * fast and deterministic for a seed — the same seed gives the same study.
- * Returns uniforms in [0, 1).
- */
-export function mulberry32(seed: number): () => number {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
+// mulberry32 (numerics/math.ts): deterministic for a seed, so the same seed gives the same study
+export { mulberry32 };
 
 function checkBox(bounds: Box, what: string): void {
 	if (!bounds.length) throw new RangeError(`${what} needs bounds on at least one input`);

@@ -31,7 +31,7 @@ export interface Evaluation {
 	outside?: boolean;
 }
 
-export interface ConstraintValue {
+interface ConstraintValue {
 	value: number;
 	grad: number[];
 }

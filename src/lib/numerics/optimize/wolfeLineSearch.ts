@@ -27,7 +27,7 @@
 import { normInf } from './linalg';
 import type { Point, Run } from './run';
 
-export interface LineSearchOptions {
+interface LineSearchOptions {
 	alpha0: number;
 	alphaMax: number;
 	c1?: number;
@@ -36,7 +36,7 @@ export interface LineSearchOptions {
 	maxZoom?: number;
 }
 
-export interface LineSearchResult {
+interface LineSearchResult {
 	status: 'wolfe' | 'armijo' | 'bound' | 'failed' | 'nonfinite';
 	alpha: number;
 	point: Point | null;

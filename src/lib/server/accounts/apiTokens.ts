@@ -2,7 +2,7 @@ import type { Db } from '../db';
 import { isUuid } from '$lib/text';
 import { newSecret, sha256 } from '../tokens';
 
-export type ApiTokenRow = { id: string; user_id: string; name: string; prefix: string; created_at: Date; last_used_at: Date | null; revoked_at: Date | null };
+type ApiTokenRow = { id: string; user_id: string; name: string; prefix: string; created_at: Date; last_used_at: Date | null; revoked_at: Date | null };
 
 const TOKEN_PREFIX = 'kl_';
 

@@ -13,7 +13,7 @@ export async function create(db: Db, userId: string): Promise<string> {
 	return token;
 }
 
-export type TokenState = { ok: true; userId: string } | { ok: false; reason: 'unknown' | 'used' | 'expired' };
+type TokenState = { ok: true; userId: string } | { ok: false; reason: 'unknown' | 'used' | 'expired' };
 
 export async function check(db: Db, token: string): Promise<TokenState> {
 	const row = await db('password_resets')

@@ -12,7 +12,7 @@ import { newSecret, sha256 } from '../tokens';
 // Counting is atomic: an attempt inserts its rows first and then counts them, so of N
 // parallel guesses at most `limit` see a count within the limit.
 
-export const WINDOW_MINUTES = 15;
+const WINDOW_MINUTES = 15;
 const RESET_WINDOW_MINUTES = 60;
 export const DEVICE_COOKIE = 'kinkless_device';
 
@@ -52,7 +52,7 @@ async function reserve(db: Db, keys: Counted[], windowMinutes: number): Promise<
 
 const release = (db: Db, ids: number[]) => db('sign_in_attempts').whereIn('id', ids).delete();
 
-export type SignInGate = {
+type SignInGate = {
 	/** the sign-in may go on; call `failed` or `succeeded` after checking the password */
 	allowed: boolean;
 	/** why it may not (true, and names what the owner can do) */

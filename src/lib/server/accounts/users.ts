@@ -2,7 +2,7 @@ import { generateIdFromEntropySize } from 'lucia';
 import type { Db } from '../db';
 import { hashPassword } from './auth';
 
-export type UserRow = { id: string; email: string; name: string; password_hash: string; created_at: Date };
+type UserRow = { id: string; email: string; name: string; password_hash: string; created_at: Date };
 
 export const findByEmail = (db: Db, email: string) => db<UserRow>('users').where({ email: email.toLowerCase() }).first();
 export const findById = (db: Db, id: string) => db<UserRow>('users').where({ id }).first();

@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 import { controlCharacterIn } from '../../text';
 import { clipForMessage, formatCount, MAX_COLUMN_NAME, MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { parseNumber } from './parseNumber';
@@ -10,7 +10,7 @@ export interface RawRecord {
 	cells: Cell[];
 }
 
-export interface BuildOptions {
+interface BuildOptions {
 	format: ParsedTable['format'];
 	/** how the user names the i-th column of the file: "column 3", "column C" */
 	columnLabel: (index: number) => string;
@@ -121,7 +121,7 @@ export function buildTable(records: RawRecord[], options: BuildOptions): ParsedT
 }
 
 /** "Torque [N·m]" → { name: "Torque", unit: "N·m" }; "eta (-)" → { name: "eta", unit: "-" }. */
-export function splitNameAndUnit(header: string): ParsedColumn {
+function splitNameAndUnit(header: string): ParsedColumn {
 	const m = NAME_WITH_UNIT.exec(header);
 	if (!m || m[1].trim() === '') return { name: header, unit: null };
 	const unit = (m[2] ?? m[3]).trim();

@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 
 const SAMPLE_BYTES = 64 * 1024;
 // Binary files are full of control bytes and invalid UTF-8; text in a legacy

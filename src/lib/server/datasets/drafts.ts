@@ -2,7 +2,7 @@
 import { isUuid } from '../../text';
 import type { Db } from '../db';
 
-export type Draft = { id: string; kind: 'file' | 'paste'; filename: string | null; bytes: Uint8Array; createdAt: Date };
+type Draft = { id: string; kind: 'file' | 'paste'; filename: string | null; bytes: Uint8Array; createdAt: Date };
 
 const KEEP_HOURS = 24;
 

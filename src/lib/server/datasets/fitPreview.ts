@@ -58,7 +58,7 @@ export const fitPreviewSchema = z
 			}
 		}
 	});
-export type FitPreviewRequest = z.infer<typeof fitPreviewSchema>;
+type FitPreviewRequest = z.infer<typeof fitPreviewSchema>;
 
 // Which request field a fitting error is about.
 const FIELD_OF: Partial<Record<FitErrorCode, string>> = {

@@ -1,8 +1,8 @@
 export type * from './types';
-export { DatasetError, MAX_ERROR_DETAILS, type DatasetErrorCode } from './DatasetError';
+export { DatasetError, MAX_ERROR_DETAILS, type DatasetErrorCode } from './datasetError';
 export { MAX_FILE_BYTES, MAX_ROWS, MAX_COLUMNS, formatMegabytes } from './limits';
 export { limitBytes } from './limitBytes';
-export { sha256 } from './sha256';
+export { sha256 } from '../tokens';
 export { parseTable, type ParseInput } from './parseTable';
 export { parseNumber } from './parseNumber';
 export { validateTable } from './validateTable';

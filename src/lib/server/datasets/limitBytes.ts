@@ -24,6 +24,11 @@ export async function limitBytes(stream: ReadableStream<Uint8Array>, max: number
 	} finally {
 		reader.releaseLock();
 	}
+	return concatBytes(chunks, total);
+}
+
+/** The chunks of a stream as one array of its own (not a view of a shared pool). */
+export function concatBytes(chunks: readonly Uint8Array[], total: number): Uint8Array {
 	const out = new Uint8Array(total);
 	let at = 0;
 	for (const chunk of chunks) {

@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 
 export const MAX_FILE_BYTES = 20 * 1024 * 1024;
 export const MAX_ROWS = 1_000_000;
@@ -52,7 +52,7 @@ export function expandsTooFar(size: number, max = MAX_EXPANDED_BYTES): DatasetEr
 /** Longest column name (with its unit) a table may have. */
 export const MAX_COLUMN_NAME = 200;
 /** Longest piece of a user's cell that an error message quotes back. */
-export const MAX_QUOTED = 80;
+const MAX_QUOTED = 80;
 
 /** A user's text as an error message may quote it: at most MAX_QUOTED characters, the rest counted. */
 export function clipForMessage(text: string, max = MAX_QUOTED): string {

@@ -1,6 +1,6 @@
 import Papa from 'papaparse';
 import { buildTable, type RawRecord } from './buildTable';
-import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
+import { DatasetError, MAX_ERROR_DETAILS } from './datasetError';
 import { clipForMessage, MAX_ROWS } from './limits';
 import { MAX_LISTED_PROBLEMS } from './problemReport';
 import { rowList } from './rowList';
@@ -13,7 +13,7 @@ const SNIFF_LINES = 100;
 // Header and units rows come on top of the data rows.
 const MAX_RECORDS = MAX_ROWS + 2;
 
-export interface DelimitedOptions {
+interface DelimitedOptions {
 	/** use this delimiter instead of detecting one */
 	delimiter?: string;
 	/** what the file name promises: ',' for .csv, tab for .tsv */
@@ -121,7 +121,7 @@ export function parseDelimited(text: string, options: DelimitedOptions = {}): Pa
  * of fields (at least two); ties go to the larger field count, then to the
  * delimiter the file name promises. Null when nothing splits the lines.
  */
-export function detectDelimiter(text: string, preferred = ','): string | null {
+function detectDelimiter(text: string, preferred = ','): string | null {
 	let end = -1;
 	for (let n = 0; n < SNIFF_LINES; n++) {
 		end = text.indexOf('\n', end + 1);
@@ -258,6 +258,6 @@ function quoteProblem(code: string): string {
 	return 'a quote is out of place';
 }
 
-export function showDelimiter(d: string): string {
+function showDelimiter(d: string): string {
 	return d === '\t' ? 'tab' : `'${d}'`;
 }

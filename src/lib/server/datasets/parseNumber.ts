@@ -24,7 +24,7 @@ export function toCell(field: string): Cell {
 	return Number.isNaN(v) ? text : v;
 }
 
-export type NonNumberCode = 'thousands-separator' | 'decimal-comma' | 'non-numeric';
+type NonNumberCode = 'thousands-separator' | 'decimal-comma' | 'non-numeric';
 
 // "1,234" is either a thousands group or a decimal comma; we cannot tell which.
 const AMBIGUOUS_COMMA = /^[+-]?\d{1,3},\d{3}$/;

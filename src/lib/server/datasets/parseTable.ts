@@ -1,4 +1,4 @@
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 import { decodeText } from './decodeText';
 import { fileTooLarge, MAX_FILE_BYTES } from './limits';
 import { parseDelimited } from './parseDelimited';

@@ -1,12 +1,12 @@
 import { Readable } from 'node:stream';
 import ExcelJS from 'exceljs';
 import { buildTable, type RawRecord } from './buildTable';
-import { DatasetError } from './DatasetError';
+import { DatasetError } from './datasetError';
 import { expandsTooFar, MAX_COLUMNS, MAX_EXPANDED_BYTES, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import { zipEntrySizes } from './zipSizes';
 import type { Cell, ErrorDetail, ParsedTable } from './types';
 
-export interface WorkbookOptions {
+interface WorkbookOptions {
 	/** the sheet to read; by default the first one holding any data */
 	sheet?: string;
 	notes?: string[];
@@ -18,7 +18,7 @@ export interface WorkbookOptions {
  * columns a table never needs more; the bound keeps a stray cell in column XFD
  * from making every row 16,384 cells wide.
  */
-export const MAX_COLUMN_INDEX = 256;
+const MAX_COLUMN_INDEX = 256;
 
 /** One sheet row as read: the columns (1-based) and values of its non-empty cells. */
 interface SparseRow {

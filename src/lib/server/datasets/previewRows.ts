@@ -17,7 +17,7 @@ export interface PreviewRow {
 	gapBefore: boolean;
 }
 
-export interface PreviewOptions {
+interface PreviewOptions {
 	/** the first rows, always shown */
 	head?: number;
 	/** at most this many rows with problems, the first ones in row order */

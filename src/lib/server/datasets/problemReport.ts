@@ -19,7 +19,7 @@ export function problemGroup(issue: Pick<ValidationIssue, 'code' | 'column'>): s
 	return 'other problems';
 }
 
-export interface OrderedProblems {
+interface OrderedProblems {
 	/** table-wide problems first, then row by row; at most `max` of the row problems, then one note */
 	listed: ValidationIssue[];
 	/** every problem found, listed or not */

@@ -3,7 +3,7 @@ import { isUuid } from '../../text';
 import type { Db } from '../db';
 import type { Role, Shape } from './types';
 
-export type DatasetColumn = { name: string; unit: string | null; role: Role };
+type DatasetColumn = { name: string; unit: string | null; role: Role };
 export type DatasetMeta = {
 	id: string;
 	workspaceId: string;
@@ -53,20 +53,20 @@ function toMeta(r: any): DatasetMeta {
 }
 
 /** Pack columns (each rowCount long) column-major into little-endian float64 bytes. */
-export function packColumns(columns: ArrayLike<number>[], rowCount: number): Buffer {
+function packColumns(columns: ArrayLike<number>[], rowCount: number): Buffer {
 	const out = new Float64Array(columns.length * rowCount);
 	columns.forEach((c, i) => out.set(c instanceof Float64Array ? c : Array.from(c), i * rowCount));
 	// Float64Array is platform-endian; every platform Node supports here is little-endian.
 	return Buffer.from(out.buffer, out.byteOffset, out.byteLength);
 }
 
-export function unpackColumns(bytes: Buffer, columnCount: number, rowCount: number): Float64Array[] {
+function unpackColumns(bytes: Buffer, columnCount: number, rowCount: number): Float64Array[] {
 	const copy = new Float64Array(columnCount * rowCount);
 	new Uint8Array(copy.buffer).set(bytes);
 	return Array.from({ length: columnCount }, (_, i) => copy.subarray(i * rowCount, (i + 1) * rowCount));
 }
 
-export type NewDataset = {
+type NewDataset = {
 	workspaceId: string;
 	name: string;
 	description?: string;
@@ -131,7 +131,7 @@ export async function get(db: Db, id: string): Promise<DatasetMeta | null> {
  * piece held that thread for 35 ms (over 150 ms on a loaded machine), so big tables
  * come in pieces with the event loop free between them.
  */
-export const DATA_PIECE_BYTES = 256 * 1024;
+const DATA_PIECE_BYTES = 256 * 1024;
 
 export async function getWithData(db: Db, id: string): Promise<(DatasetMeta & { data: Float64Array[] }) | null> {
 	if (!isUuid(id)) return null;

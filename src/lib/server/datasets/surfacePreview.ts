@@ -3,7 +3,7 @@
 // (../offload/surfacePreview.ts). Bad requests are 422s naming the field.
 import { z } from 'zod';
 import type { FitErrorCode } from '../../numerics/fits';
-import { GRID_FIT_METHODS, SCATTER_FIT_METHODS } from '../studies/launchRequest';
+import { gridMethods } from '../../numerics/fits/fitGrid';
 import { fail4xx } from '../api';
 import { formatBudget, PREVIEW_BUDGET_MS } from '../offload/limits';
 import { OffloadBusy, OffloadOverBudget, runOffThread } from '../offload/pool';
@@ -13,7 +13,7 @@ import type { DatasetMeta } from './store';
 
 export type { SurfacePreview } from '../offload/surfacePreview';
 
-const SURFACE_METHODS = [...GRID_FIT_METHODS, ...SCATTER_FIT_METHODS] as [string, ...string[]];
+const SURFACE_METHODS: [string, ...string[]] = [...(Object.keys(gridMethods) as [string, ...string[]]), 'rbf-thin-plate', 'rbf-multiquadric', 'rbf-gaussian'];
 export const MAP_RESOLUTION = { min: 5, max: 81, default: 41 } as const;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);

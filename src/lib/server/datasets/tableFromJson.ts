@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 import { datasetJsonSchema, type DatasetJson } from './datasetJsonSchema';
-import { DatasetError, MAX_ERROR_DETAILS } from './DatasetError';
+import { DatasetError, MAX_ERROR_DETAILS } from './datasetError';
 import { MAX_COLUMNS, MAX_ROWS, tooManyColumns, tooManyRows } from './limits';
 import type { ErrorDetail, ParsedTable } from './types';
 

@@ -51,7 +51,7 @@ export interface ParsedTable {
 	warnings: string[];
 }
 
-export interface BadRow {
+interface BadRow {
 	/** the row number the user sees */
 	row: number;
 	code: 'field-count' | 'mixed-delimiters';

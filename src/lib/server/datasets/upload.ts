@@ -2,6 +2,7 @@
 // read the request body under the size limit, parse it into a table, check it,
 // and store it. Parsing and checking live in ./datasets; storage in ./datasetStore.
 import { z } from 'zod';
+import { concatBytes } from './limitBytes';
 import {
 	DatasetError,
 	MAX_FILE_BYTES,
@@ -29,7 +30,7 @@ import type { ParseResult } from '../offload/tableWork';
 
 /** Room for the multipart framing and the small fields that travel with the file. */
 const FORM_OVERHEAD = 1024 * 1024;
-export const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
+const MAX_UPLOAD_BODY = MAX_FILE_BYTES + FORM_OVERHEAD;
 const MAX_DESCRIPTION = 2000;
 const HEAD_ROWS = 8;
 /** Rows with problems the preview shows beside the first rows. */
@@ -41,14 +42,14 @@ const ROLE_ERROR = { error: 'a column role must be "input" or "output"' };
 /** The one shape a user may choose: "scatter" takes a grid-like table (a grid with missing cells, say) as scattered points. */
 export const SHAPE_CHOICE = z.enum(['scatter'], { error: 'shape may only be "scatter" (take the table as scattered points); leave it out to let the inputs decide' }).optional();
 
-export const uploadFieldsSchema = z.object({
+const uploadFieldsSchema = z.object({
 	name: z.string().trim().min(1, 'name cannot be empty').max(MAX_NAME_LENGTH, `name can be at most ${MAX_NAME_LENGTH} characters`).optional(),
 	description: z.string().trim().max(MAX_DESCRIPTION, `description can be at most ${MAX_DESCRIPTION} characters`).optional(),
 	sheet: z.string().trim().min(1).max(100, 'sheet name can be at most 100 characters').optional(),
 	roles: z.record(z.string(), z.enum(['input', 'output'], ROLE_ERROR), { error: 'roles must be an object { "column name": "input" | "output" }' }).optional(),
 	shape: SHAPE_CHOICE
 });
-export type UploadFields = z.infer<typeof uploadFieldsSchema>;
+type UploadFields = z.infer<typeof uploadFieldsSchema>;
 
 export type Source =
 	| { kind: 'file'; bytes: Uint8Array; filename: string; sheet?: string }
@@ -96,13 +97,7 @@ export async function readBody(request: Request, max = MAX_UPLOAD_BODY): Promise
 		reader.releaseLock();
 	}
 	if (over) throw tooLarge();
-	const out = new Uint8Array(total);
-	let at = 0;
-	for (const chunk of chunks) {
-		out.set(chunk, at);
-		at += chunk.byteLength;
-	}
-	return out;
+	return concatBytes(chunks, total);
 }
 
 /** A multipart body under the size limit, as FormData. */
@@ -204,7 +199,7 @@ export function defaultName(source: Source): string {
 }
 
 /** The report of a checked table, as the upload page and `?dryRun=1` show it. */
-export interface UploadReport {
+interface UploadReport {
 	ok: boolean;
 	name: string;
 	/** the version saving would create */
@@ -265,7 +260,7 @@ export function rolesFor(parsed: ParsedTable, roles: Record<string, Role> | unde
 	return Object.keys(kept).length ? kept : undefined;
 }
 
-export interface SaveInput {
+interface SaveInput {
 	workspaceId: string;
 	userId: string;
 	name: string;

@@ -7,7 +7,7 @@
  * workbook within our 20 MB upload limit never needs them, so they are
  * reported as "unknown" and refused by the caller.
  */
-export interface ZipEntrySize {
+interface ZipEntrySize {
 	name: string;
 	/** bytes once expanded; Infinity when the archive says "see ZIP64" */
 	size: number;

@@ -7,7 +7,7 @@
 import type { FitPreview } from '../../fitMethods';
 import { auditFidelity } from '../../numerics/audit/fidelity';
 import { auditSmoothness } from '../../numerics/audit/smoothness';
-import { FitError, type FitErrorCode } from '../../numerics/fits/FitError';
+import { FitError, type FitErrorCode } from '../../numerics/fits/fitError';
 import { fitCurve } from '../../numerics/fits/fitCurve';
 import type { CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { sizeProblem } from './limits';
@@ -48,7 +48,7 @@ export type FitProblem =
 	| { kind: 'size'; message: string }
 	| { kind: 'at'; index: number; message: string };
 
-export type PreviewTask = { kind: 'preview'; x: Float64Array; y: Float64Array; method: CurveMethod; options: CurveFitOptions; at?: number[] };
+type PreviewTask = { kind: 'preview'; x: Float64Array; y: Float64Array; method: CurveMethod; options: CurveFitOptions; at?: number[] };
 export type BuildTask = {
 	kind: 'build';
 	x: Float64Array;

@@ -16,7 +16,7 @@ export const LAUNCH_BUILD_BUDGET_MS = 30_000;
 export const MAX_WAITING = 8;
 
 /** Largest number of data points per method, with the reason a user reads. */
-export const METHOD_MAX_POINTS: Partial<Record<CurveMethod, { max: number; why: string }>> = {
+const METHOD_MAX_POINTS: Partial<Record<CurveMethod, { max: number; why: string }>> = {
 	'polynomial-global': {
 		max: 40,
 		why: 'an interpolating polynomial through more points than this rings between them (Runge’s phenomenon) and means nothing as a model of the table; use a spline, or polynomial-least-squares for a low-degree trend'

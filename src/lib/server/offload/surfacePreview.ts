@@ -8,8 +8,8 @@
  * Answers plain data and never throws for a user's mistake.
  */
 import { auditGridFitFidelity, auditSurfaceSmoothness } from '../../numerics/audit/surfaceAudit';
-import { FitError } from '../../numerics/fits/FitError';
-import { TensorGrid } from '../../numerics/fits/TensorGrid';
+import { FitError } from '../../numerics/fits/fitError';
+import { TensorGrid } from '../../numerics/fits/tensorGrid';
 import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
 import type { SurfacePreview } from '../../domain/wire';
 import type { FitProblem } from './fitWork';

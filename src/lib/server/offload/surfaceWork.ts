@@ -5,9 +5,9 @@
  * user's mistake.
  */
 import { classifyTable } from '../../numerics/fits/classifyTable';
-import { FitError } from '../../numerics/fits/FitError';
+import { FitError } from '../../numerics/fits/fitError';
 import { fitGrid, isGridMethod } from '../../numerics/fits/fitGrid';
-import { fitScatter, isScatterMethod } from '../../numerics/fits/RadialBasis';
+import { fitScatter, isScatterMethod } from '../../numerics/fits/radialBasis';
 import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
 import type { FitProblem } from './fitWork';
 

@@ -4,7 +4,7 @@
  * is capped (PARSE_HEAP_MB), so a workbook that lies about its expanded size
  * kills that thread, not the server.
  */
-import { DatasetError, type DatasetErrorCode } from '../datasets/DatasetError';
+import { DatasetError, type DatasetErrorCode } from '../datasets/datasetError';
 import { parseTable, type ParseInput } from '../datasets/parseTable';
 import type { ErrorDetail, ParsedTable } from '../datasets/types';
 

@@ -34,6 +34,6 @@ export async function sharedStudy(token: string): Promise<store.Study> {
 }
 
 /** The study as a link holder sees it by default: no member names or ids. */
-export function withoutMemberNames(study: store.Study): store.Study {
+function withoutMemberNames(study: store.Study): store.Study {
 	return { ...study, createdBy: null, pick: study.pick ? { ...study.pick, by: null } : null };
 }

@@ -9,7 +9,7 @@ import { fitFromJSON, isSurfaceFitFile, surfaceFromJSON } from '../../numerics/f
 import { fail4xx } from '../api';
 import { version as KINKLESS_VERSION } from '../../../../package.json';
 
-export const EXPORT_FORMATS = ['json', 'python', 'typescript', 'csv'] as const;
+const EXPORT_FORMATS = ['json', 'python', 'typescript', 'csv'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
 
 export const exportFormatSchema = z.enum(EXPORT_FORMATS, { error: `format must be one of ${EXPORT_FORMATS.join(', ')}` });
@@ -32,7 +32,7 @@ export async function buildFitExport(fitBody: unknown, source: FitExportSource):
 }
 
 /** Letters, digits, '-', '_' and '.' only; everything else becomes '-'. */
-export function safeFileStem(...parts: string[]): string {
+function safeFileStem(...parts: string[]): string {
 	const stem = parts
 		.join('-')
 		.normalize('NFKD')
@@ -56,7 +56,7 @@ function derivUnit(out: { unit: string | null }, inp: { unit: string | null }, p
 }
 
 /** x, f, f′, f″ sampled evenly over the domain plus at every knot; units in the header row; the caution as a trailing comment line. */
-export function samplesCsv(doc: FitExport): string {
+function samplesCsv(doc: FitExport): string {
 	if (isSurfaceFitFile(doc.fit)) return surfaceSamplesCsv(doc);
 	const fit = fitFromJSON(doc.fit);
 	const [lo, hi] = fit.domain;

@@ -6,11 +6,11 @@
  */
 import type { Knex } from 'knex';
 import { fitFromJSON, isCurveMethod } from '../../numerics/fits/fitCurve';
-import type { FitErrorCode } from '../../numerics/fits/FitError';
+import type { FitErrorCode } from '../../numerics/fits/fitError';
 import { isGridMethod } from '../../numerics/fits/fitGrid';
 import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
 import type { SurfaceFit, SurfaceFitOptions, SurfaceMethod } from '../../numerics/fits/surfaceTypes';
-import { GRID_MAX_INPUTS } from '../../numerics/fits/TensorGrid';
+import { GRID_MAX_INPUTS } from '../../numerics/fits/tensorGrid';
 import type { CurveFit, CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import { MIN_GRAD_TOL, MIN_TOL } from '../../numerics/optimize/run';
@@ -25,7 +25,7 @@ import { DEFAULT_BUDGETS, MAX_RUNS, MAX_STARTS, MAX_STUDY_INPUTS, type StudyInpu
 import type { StudySpec } from '../../domain/studySpec';
 
 /** Largest curve a study takes: every fit is built when the study is launched. */
-export const MAX_STUDY_ROWS = 20_000;
+const MAX_STUDY_ROWS = 20_000;
 
 export type Detail = { field: string; problem: string };
 
@@ -45,7 +45,7 @@ const fmt = (v: number) => String(Number(v.toPrecision(6)));
 /** Which part of a fit request a fitting error is about (below fits.<i>). */
 const FIT_FIELD: Partial<Record<FitErrorCode, string>> = { 'bad-option': 'options', 'degree-too-high': 'options.degree', 'missing-slopes': 'options.slopes', 'bad-width': 'options.width', 'too-few-points': 'method', 'too-many-inputs': 'method', 'shape-mismatch': 'method' };
 
-export interface LaunchArgs {
+interface LaunchArgs {
 	workspaceId: string;
 	userId: string | null;
 	/** public origin, for links in the "finished" e-mail */

@@ -14,18 +14,18 @@ import { OPTIMIZERS } from '../../numerics/optimize/optimize';
 import type { OptimizerName } from '../../numerics/optimize/types';
 
 export const CURVE_FIT_METHODS = Object.keys(curveMethods) as CurveMethod[];
-export const GRID_FIT_METHODS = Object.keys(gridMethods) as GridMethod[];
-export const SCATTER_FIT_METHODS: ScatterMethod[] = ['rbf-thin-plate', 'rbf-multiquadric', 'rbf-gaussian'];
-export const FIT_METHODS: (CurveMethod | SurfaceMethod)[] = [...CURVE_FIT_METHODS, ...GRID_FIT_METHODS, ...SCATTER_FIT_METHODS];
+const GRID_FIT_METHODS = Object.keys(gridMethods) as GridMethod[];
+const SCATTER_FIT_METHODS: ScatterMethod[] = ['rbf-thin-plate', 'rbf-multiquadric', 'rbf-gaussian'];
+const FIT_METHODS: (CurveMethod | SurfaceMethod)[] = [...CURVE_FIT_METHODS, ...GRID_FIT_METHODS, ...SCATTER_FIT_METHODS];
 /** most inputs a study takes (scattered fits; grid fits take up to 4) */
 export const MAX_STUDY_INPUTS = 6;
 export const OPTIMIZER_NAMES = Object.keys(OPTIMIZERS) as OptimizerName[];
 
 export const MAX_STARTS = 1000;
 export const MAX_RUNS = 100_000;
-export const MAX_FITS = 20;
-export const MAX_OPTIMIZERS = 10;
-export const MAX_CONSTRAINTS = 5;
+const MAX_FITS = 20;
+const MAX_OPTIMIZERS = 10;
+const MAX_CONSTRAINTS = 5;
 /** per-run budgets a study may ask for (the numerics' own defaults apply below these) */
 export const BUDGET_LIMITS = { maxIterations: 100_000, maxEvaluations: 1_000_000, maxMilliseconds: 60_000 } as const;
 /** what a study uses when the request sets no budget */
@@ -190,8 +190,6 @@ export const studyInputSchema = z
 	});
 
 export type StudyInput = z.output<typeof studyInputSchema>;
-export type FitSpec = StudyInput['fits'][number];
-export type OptimizerSpec = StudyInput['optimizers'][number];
 
 // ---------------------------------------------------------------- the form
 
@@ -220,7 +218,7 @@ function parsePoints(text: string): unknown[] {
  * `studyInputSchema`). Unknown or blank fields are left out so the schema's
  * messages apply.
  */
-export function studyFromForm(raw: Record<string, string>): unknown {
+function studyFromForm(raw: Record<string, string>): unknown {
 	const [datasetId, ...outputParts] = (raw.source ?? '').split(':');
 	const problem: Record<string, unknown> = { kind: raw.kind };
 	if (raw.kind === 'solve') problem.target = num(raw.target);

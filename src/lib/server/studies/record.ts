@@ -57,13 +57,13 @@ ${ticks(y0, y1).map((t) => `<line x1="${m.l}" x2="${CHART_W - m.r}" y1="${py(t)}
 </svg>`;
 }
 
-export interface RecordOptions {
+interface RecordOptions {
 	/** a note printed under the title (e.g. "shared read-only") */
 	note?: string;
 }
 
 /** The record as one HTML document. */
-export async function studyRecordHtml(db: Knex, study: store.Study, opts: RecordOptions = {}): Promise<string> {
+async function studyRecordHtml(db: Knex, study: store.Study, opts: RecordOptions = {}): Promise<string> {
 	if (store.isActive(study.status)) fail4xx(409, 'the study is still running; its record is ready when it finishes', 'study-running');
 	if (study.status === 'failed') fail4xx(409, `this study failed${study.error ? ` (${study.error})` : ''}; there is no record to review`, 'study-failed');
 	const spec = study.spec;
@@ -178,7 +178,7 @@ ${
 }
 
 /** The record printed to PDF by headless Chromium. */
-export async function studyRecordPdf(html: string): Promise<Buffer> {
+async function studyRecordPdf(html: string): Promise<Buffer> {
 	if (!existsSync(CHROMIUM)) fail4xx(503, 'PDF export needs Chromium on the server (apt-get install chromium); print the record page from the browser instead', 'pdf-unavailable');
 	const dir = await mkdtemp(join(tmpdir(), 'kinkless-record-'));
 	try {

@@ -13,7 +13,7 @@ type Db = Knex | Knex.Transaction;
 export const RANK_RULE = VERDICT_RULE;
 
 /** a best end point within this share of the fit's range of f from the reference counts as reaching it */
-export const REFERENCE_TOLERANCE = 1e-6;
+const REFERENCE_TOLERANCE = 1e-6;
 
 import { OUTCOMES } from '../../domain/outcomes';
 import type { Monotone, ScorecardRow } from '../../domain/wire';

@@ -79,13 +79,7 @@ export async function get(db: Db, id: string): Promise<Study | null> {
 	return row ? toStudy(row) : null;
 }
 
-export async function workspaceOf(db: Db, id: string): Promise<string | null> {
-	if (!isUuid(id)) return null;
-	const row = await db('studies').where({ id }).first('workspace_id');
-	return row?.workspace_id ?? null;
-}
-
-export type StudyListItem = { id: string; name: string; status: StudyStatus; createdAt: Date; progress: { done: number; total: number }; dataset: string; output: string; createdBy: string | null };
+type StudyListItem = { id: string; name: string; status: StudyStatus; createdAt: Date; progress: { done: number; total: number }; dataset: string; output: string; createdBy: string | null };
 
 export async function listForWorkspace(db: Db, workspaceId: string, limit = 200): Promise<StudyListItem[]> {
 	const rows = await db('studies as s')

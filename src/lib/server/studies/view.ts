@@ -49,7 +49,7 @@ export async function studyJson(db: Db, study: Study) {
 /** Most data points the chart gets (a long curve is thinned evenly). */
 const CHART_POINTS = 2000;
 /** Most runs a page carries; beyond this the page shows the scorecard and pages runs through the API. */
-export const PAGE_RUNS = 20_000;
+const PAGE_RUNS = 20_000;
 
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);

@@ -5,7 +5,7 @@ import { db, type Db } from '../db';
 
 const RANK: Record<Role, number> = { viewer: 1, editor: 2, owner: 3 };
 
-export type WorkspaceRow = { id: string; slug: string; name: string; created_at: Date };
+type WorkspaceRow = { id: string; slug: string; name: string; created_at: Date };
 export type Access = { user: NonNullable<App.Locals['user']>; workspace: WorkspaceRow; role: Role };
 
 export function requireUser(locals: App.Locals): NonNullable<App.Locals['user']> {

@@ -5,7 +5,7 @@ import { newSecret, sha256 } from '../tokens';
 
 const INVITE_DAYS = 7;
 
-export function slugify(name: string): string {
+function slugify(name: string): string {
 	const base = name
 		.normalize('NFKD')
 		.replace(/[\u0300-\u036f]/g, '')
@@ -86,7 +86,7 @@ export async function invite(db: Db, workspaceId: string, invitedBy: string, ema
  * workspace a day, per sender an hour (across workspaces), and per address in a
  * workspace a day (a few resends). The 429 names the limit that was reached.
  */
-export const inviteLimits = () => ({
+const inviteLimits = () => ({
 	workspacePerDay: Number(process.env.KINKLESS_INVITE_LIMIT_WORKSPACE ?? 50),
 	senderPerHour: Number(process.env.KINKLESS_INVITE_LIMIT_SENDER ?? 20),
 	addressPerDay: 3
@@ -109,8 +109,8 @@ async function checkInviteLimits(db: Db, workspaceId: string, invitedBy: string,
 	}
 }
 
-export type InvitationView = { id: string; email: string; role: Role; workspace_id: string; workspace_slug: string; workspace_name: string; inviter: string | null };
-export type InvitationState = { ok: true; invitation: InvitationView } | { ok: false; reason: 'unknown' | 'used' | 'expired' | 'other-address' };
+type InvitationView = { id: string; email: string; role: Role; workspace_id: string; workspace_slug: string; workspace_name: string; inviter: string | null };
+type InvitationState = { ok: true; invitation: InvitationView } | { ok: false; reason: 'unknown' | 'used' | 'expired' | 'other-address' };
 
 export async function findInvitation(db: Db, token: string): Promise<InvitationState> {
 	const row = await db('invitations as i')

@@ -11,7 +11,7 @@
 import PgBoss from 'pg-boss';
 import type { Knex } from 'knex';
 
-export const DEFAULT_QUEUE = 'studies';
+const DEFAULT_QUEUE = 'studies';
 export const queueName = () => process.env.KINKLESS_QUEUE || DEFAULT_QUEUE;
 export const mailQueue = (q: string) => `${q}-mail`;
 export const failedQueue = (q: string) => `${q}-failed`;
@@ -23,10 +23,10 @@ export const RETRY_DELAY_SECONDS = 2;
 export const MAIL_RETRY_LIMIT = 12;
 export const MAIL_RETRY_SECONDS = 10;
 /** how often some live pg-boss instance looks for expired (abandoned) jobs */
-export const MAINTENANCE_SECONDS = Number(process.env.KINKLESS_QUEUE_MAINTENANCE_SECONDS ?? 10);
+const MAINTENANCE_SECONDS = Number(process.env.KINKLESS_QUEUE_MAINTENANCE_SECONDS ?? 10);
 
 /** pg-boss speaks `$1` placeholders; Knex raw speaks `?`. */
-export function knexExecutor(db: Knex | Knex.Transaction): PgBoss.Db {
+function knexExecutor(db: Knex | Knex.Transaction): PgBoss.Db {
 	return {
 		async executeSql(text: string, values: unknown[] = []) {
 			const bindings: unknown[] = [];
@@ -62,7 +62,7 @@ export async function startBoss(connectionString: string, queue = queueName(), o
 	return boss;
 }
 
-export async function ensureQueues(boss: PgBoss, queue: string): Promise<void> {
+async function ensureQueues(boss: PgBoss, queue: string): Promise<void> {
 	await boss.createQueue(failedQueue(queue), { name: failedQueue(queue), retryLimit: 5, retryDelay: 5 });
 	await boss.createQueue(mailQueue(queue), { name: mailQueue(queue), retryLimit: MAIL_RETRY_LIMIT, retryDelay: MAIL_RETRY_SECONDS, retryBackoff: true });
 	await boss.createQueue(queue, { name: queue, retryLimit: RETRY_LIMIT, retryDelay: RETRY_DELAY_SECONDS, deadLetter: failedQueue(queue) });

@@ -13,7 +13,7 @@ export type StudyJob =
 export type MailJob = { studyId: string; event: 'done' | 'failed' };
 
 /** runs per job: small enough to spread over threads, big enough to keep queue and storage overhead low */
-export const RUNS_PER_JOB = 300;
+const RUNS_PER_JOB = 300;
 export const startsPerJob = (optimizers: number) => Math.max(1, Math.floor(RUNS_PER_JOB / Math.max(1, optimizers)));
 /** a runs job stores what it has and hands the rest to a new job after this long */
 export const softSeconds = () => Number(process.env.KINKLESS_JOB_SOFT_SECONDS ?? 10);
@@ -38,7 +38,7 @@ export function auditJob(queue: string, data: Extract<StudyJob, { kind: 'audit' 
  * in all), so an SMTP outage delays it rather than losing it. The SMTP timeouts
  * (mail.ts) are well inside the job's expiry, so a hanging server counts as a failure.
  */
-export const mailRetrySeconds = () => Number(process.env.KINKLESS_MAIL_RETRY_SECONDS ?? MAIL_RETRY_SECONDS);
+const mailRetrySeconds = () => Number(process.env.KINKLESS_MAIL_RETRY_SECONDS ?? MAIL_RETRY_SECONDS);
 
 export function mailJob(queue: string, data: MailJob): PgBoss.JobInsert {
 	return { name: mailQueue(queue), data, retryLimit: MAIL_RETRY_LIMIT, retryDelay: mailRetrySeconds(), retryBackoff: true, expireInSeconds: 120 };

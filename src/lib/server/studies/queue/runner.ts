@@ -19,7 +19,7 @@ import type { CurveFit } from '../../../numerics/fits/types';
 import { auditGridFitFidelity, auditSurfaceSmoothness } from '../../../numerics/audit/surfaceAudit';
 import { surfaceFromJSON } from '../../../numerics/fits/surfaceFile';
 import type { SurfaceFit } from '../../../numerics/fits/surfaceTypes';
-import { TensorGrid } from '../../../numerics/fits/TensorGrid';
+import { TensorGrid } from '../../../numerics/fits/tensorGrid';
 import { surfaceProblem } from '../../../domain/surfaceProblem';
 import { optimize } from '../../../numerics/optimize/optimize';
 import { brokenRun } from '../../../numerics/optimize/run';
@@ -95,7 +95,7 @@ export function optionsFor(spec: StudySpec, optimizer: number): OptimizeOptions 
 	return { ...spec.budgets, ...(spec.optimizers[optimizer]?.options ?? {}) };
 }
 
-export function problemSpec(spec: StudySpec): ProblemSpec {
+function problemSpec(spec: StudySpec): ProblemSpec {
 	return { kind: spec.problem.kind, target: spec.problem.target, bounds: spec.problem.bounds, constraints: spec.problem.constraints };
 }
 

@@ -27,7 +27,7 @@ import type { JobResult } from './runner';
 import { ThreadPool } from './threadPool';
 import { warmUp } from './warmUp';
 
-export interface WorkerOptions {
+interface WorkerOptions {
 	databaseUrl: string;
 	/** the app's Knex handle (for the e-mail and dead-letter loops) */
 	db: Knex;
@@ -184,7 +184,7 @@ function describe(job: StudyJob): string {
 }
 
 /** Mark a study failed (if it is still queued or running) and queue its e-mail, in one transaction. */
-export async function markFailed(db: Knex, studyId: string, error: string, queue: string): Promise<boolean> {
+async function markFailed(db: Knex, studyId: string, error: string, queue: string): Promise<boolean> {
 	return db.transaction(async (trx) => {
 		const n = await trx('studies')
 			.where({ id: studyId })
@@ -195,7 +195,7 @@ export async function markFailed(db: Knex, studyId: string, error: string, queue
 	});
 }
 
-export async function sendStudyMail(db: Knex, job: MailJob): Promise<void> {
+async function sendStudyMail(db: Knex, job: MailJob): Promise<void> {
 	const s = await db('studies as s')
 		.join('workspaces as w', 'w.id', 's.workspace_id')
 		.leftJoin('users as u', 'u.id', 's.created_by')

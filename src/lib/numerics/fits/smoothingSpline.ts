@@ -30,8 +30,8 @@
  * With weights, our GCV uses the weighted residual sum (SciPy's uses the
  * unweighted one); with unit weights the two are the same.
  */
-import { FitError } from './FitError';
-import { PiecewisePolynomial } from './PiecewisePolynomial';
+import { FitError } from './fitError';
+import { PiecewisePolynomial } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

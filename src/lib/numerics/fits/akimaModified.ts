@@ -6,7 +6,7 @@
  * beside them, and the slope is 0 where all four neighbouring secants are 0.
  */
 import { akimaSlopesInto } from './akimaSlopes';
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

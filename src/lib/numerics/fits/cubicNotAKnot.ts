@@ -6,7 +6,7 @@
  * line, three the parabola through them.
  */
 import { cubicSplineSlopesInto } from './cubicSplineSlopes';
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

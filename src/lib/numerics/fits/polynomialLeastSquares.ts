@@ -14,22 +14,9 @@
  */
 import { Matrix, QrDecomposition } from 'ml-matrix';
 import { polynomialLimit } from '../math';
-import { FitError } from './FitError';
-import {
-	FIT_FILE_FORMAT,
-	FIT_FILE_VERSION,
-	decodeArray,
-	decodeNumber,
-	decodeOptions,
-	decodeStats,
-	encodeArray,
-	encodeNumber,
-	encodeOptions,
-	encodeStats,
-	readFitFileHeader,
-	type FitFileBase
-} from './fitFile';
-import { invalidPoint, manyBuffers, outsideError, type ManyOut, type ManyResult } from './PiecewisePolynomial';
+import { FitError } from './fitError';
+import { decodeArray, decodeNumber, decodeOptions, decodeStats, encodeArray, encodeNumber, encodeOptions, encodeStats, fitFileEnvelope, readFitFileHeader, type FitFileBase } from './fitFile';
+import { edgeExtrapolation, evaluateManyPointwise, evaluateValuesPointwise, type ManyOut, type ManyResult } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod, Extrapolation, FitStats, Jet } from './types';
 
@@ -90,61 +77,32 @@ export class ScaledPolynomial implements CurveFit {
 
 	evaluate(x: number): Jet {
 		if (x >= this.domain[0] && x <= this.domain[1]) return this.evaluatePiece(0, x);
-		if (Number.isNaN(x)) throw invalidPoint(x);
-		const below = x < this.domain[0];
-		const e = this.edges[below ? 0 : 1];
-		const x0 = this.domain[below ? 0 : 1];
-		switch (this.extrapolation) {
-			case 'refuse':
-				throw outsideError(x, this.domain);
-			case 'hold':
-				return { f: e.f, df: 0, d2f: 0, outside: true };
-			case 'linear':
-				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
-				return { f: e.df === 0 ? e.f : e.f + e.df * (x - x0), df: e.df, d2f: 0, outside: true };
-			default: {
-				if (!Number.isFinite(x)) {
-					// the limits at ±∞ (t → ±∞ with x, the scale being positive)
-					const a = Array.from(this.coefficients);
-					const sign = below ? -1 : 1;
-					const d1 = a.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
-					const d2 = d1.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
-					return { f: polynomialLimit(a, sign), df: polynomialLimit(d1, sign), d2f: polynomialLimit(d2, sign), outside: true };
-				}
-				const j = this.evaluatePiece(0, x);
-				j.outside = true;
-				return j;
-			}
+		const edge = edgeExtrapolation(x, this.extrapolation, this.domain, (below) => this.edges[below ? 0 : 1]);
+		if (edge) return edge;
+		if (!Number.isFinite(x)) {
+			// the limits at ±∞ (t → ±∞ with x, the scale being positive)
+			const a = Array.from(this.coefficients);
+			const sign = x < 0 ? -1 : 1;
+			const d1 = a.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+			const d2 = d1.slice(1).map((v, k) => ((k + 1) * v) / this.scale);
+			return { f: polynomialLimit(a, sign), df: polynomialLimit(d1, sign), d2f: polynomialLimit(d2, sign), outside: true };
 		}
+		const j = this.evaluatePiece(0, x);
+		j.outside = true;
+		return j;
 	}
 
 	evaluateMany(xs: ArrayLike<number>, out?: ManyOut): ManyResult {
-		const n = xs.length;
-		const { f, df, d2f } = manyBuffers(n, out);
-		let outside = 0;
-		for (let p = 0; p < n; p++) {
-			const j = this.evaluate(xs[p]);
-			f[p] = j.f;
-			df[p] = j.df;
-			d2f[p] = j.d2f;
-			if (j.outside) outside++;
-		}
-		return { f, df, d2f, outside };
+		return evaluateManyPointwise((x) => this.evaluate(x), xs, out);
 	}
 
 	evaluateValues(xs: ArrayLike<number>, out?: Float64Array): Float64Array {
-		const f = out && out.length >= xs.length ? out : new Float64Array(xs.length);
-		for (let p = 0; p < xs.length; p++) f[p] = this.evaluate(xs[p]).f;
-		return f;
+		return evaluateValuesPointwise((x) => this.evaluate(x), xs, out);
 	}
 
 	toJSON(): FitFileBase {
 		return {
-			format: FIT_FILE_FORMAT,
-			version: FIT_FILE_VERSION,
-			method: this.method,
-			continuity: this.continuity,
-			extrapolation: this.extrapolation,
+			...fitFileEnvelope(this),
 			domain: [encodeNumber(this.domain[0]), encodeNumber(this.domain[1])],
 			options: encodeOptions(this.options),
 			representation: 'polynomial',

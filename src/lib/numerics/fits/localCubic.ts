@@ -5,7 +5,7 @@
  * §25.2), shifted inward at the ends. C0 at the knots. See localLagrange.
  */
 import { localLagrangeCoefficients } from './localLagrange';
-import { PiecewisePolynomial } from './PiecewisePolynomial';
+import { PiecewisePolynomial } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -5,7 +5,7 @@
  * knots. Stencil rule and construction: see localLagrange.
  */
 import { localLagrangeCoefficients } from './localLagrange';
-import { PiecewisePolynomial } from './PiecewisePolynomial';
+import { PiecewisePolynomial } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -18,10 +18,8 @@
  * limits from inside the data, never from the extrapolation.
  */
 import { polynomialLimit } from '../math';
-import { FitError } from './FitError';
+import { FitError } from './fitError';
 import {
-	FIT_FILE_FORMAT,
-	FIT_FILE_VERSION,
 	decodeArray,
 	decodeNumber,
 	decodeOptions,
@@ -30,12 +28,13 @@ import {
 	encodeNumber,
 	encodeOptions,
 	encodeStats,
+	fitFileEnvelope,
 	readFitFileHeader,
 	type FitFileBase
 } from './fitFile';
 import type { Continuity, CurveFit, CurveFitOptions, CurveMethod, Extrapolation, FitStats, Jet } from './types';
 
-export interface PiecewiseInit {
+interface PiecewiseInit {
 	method: CurveMethod;
 	continuity: Continuity;
 	options: CurveFitOptions;
@@ -64,6 +63,45 @@ export function manyBuffers(n: number, out?: ManyOut): { f: Float64Array; df: Fl
 		df: out?.df && out.df.length >= n ? out.df : new Float64Array(n),
 		d2f: out?.d2f && out.d2f.length >= n ? out.d2f : new Float64Array(n)
 	};
+}
+
+/**
+ * `hold` and `linear` beyond the data from the edge value and slope (shared by
+ * every curve fit); null for `extend`, which each fit evaluates its own way.
+ * Throws for `refuse` and NaN.
+ */
+export function edgeExtrapolation(x: number, rule: Extrapolation, domain: readonly [number, number], edge: (below: boolean) => { f: number; df: number }): Jet | null {
+	if (Number.isNaN(x)) throw invalidPoint(x);
+	const below = x < domain[0];
+	if (rule === 'refuse') throw outsideError(x, domain);
+	if (rule === 'extend') return null;
+	const e = edge(below);
+	if (rule === 'hold') return { f: e.f, df: 0, d2f: 0, outside: true };
+	// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
+	const xe = domain[below ? 0 : 1];
+	return { f: e.df === 0 ? e.f : e.f + e.df * (x - xe), df: e.df, d2f: 0, outside: true };
+}
+
+/** evaluateMany for a fit evaluated one point at a time (the piecewise fits have batch kernels instead). */
+export function evaluateManyPointwise(evaluate: (x: number) => Jet, xs: ArrayLike<number>, out?: ManyOut): ManyResult {
+	const n = xs.length;
+	const { f, df, d2f } = manyBuffers(n, out);
+	let outside = 0;
+	for (let p = 0; p < n; p++) {
+		const j = evaluate(xs[p]);
+		f[p] = j.f;
+		df[p] = j.df;
+		d2f[p] = j.d2f;
+		if (j.outside) outside++;
+	}
+	return { f, df, d2f, outside };
+}
+
+/** evaluateValues for a fit evaluated one point at a time; `out` is reused when long enough. */
+export function evaluateValuesPointwise(evaluate: (x: number) => Jet, xs: ArrayLike<number>, out?: Float64Array): Float64Array {
+	const f = out && out.length >= xs.length ? out : new Float64Array(xs.length);
+	for (let p = 0; p < xs.length; p++) f[p] = evaluate(xs[p]).f;
+	return f;
 }
 
 export function outsideError(x: number, domain: readonly [number, number]): FitError {
@@ -222,25 +260,13 @@ export class PiecewisePolynomial implements CurveFit {
 	}
 
 	private outsideJet(x: number): Jet {
-		if (Number.isNaN(x)) throw invalidPoint(x);
+		const edge = edgeExtrapolation(x, this.extrapolation, this.domain, (below) => (below ? { f: this.f0, df: this.d0 } : { f: this.fN, df: this.dN }));
+		if (edge) return edge;
 		const below = x < this.domain[0];
-		switch (this.extrapolation) {
-			case 'refuse':
-				throw outsideError(x, this.domain);
-			case 'hold':
-				return { f: below ? this.f0 : this.fN, df: 0, d2f: 0, outside: true };
-			case 'linear': {
-				// a zero edge slope keeps f at the edge value, also at ±∞ (where 0·∞ would be NaN)
-				const [fe, de, xe] = below ? [this.f0, this.d0, this.domain[0]] : [this.fN, this.dN, this.domain[1]];
-				return { f: de === 0 ? fe : fe + de * (x - xe), df: de, d2f: 0, outside: true };
-			}
-			default: {
-				if (!Number.isFinite(x)) return this.edgeAtInfinity(below);
-				const j = this.evaluatePiece(below ? 0 : this.pieces - 1, x);
-				j.outside = true;
-				return j;
-			}
-		}
+		if (!Number.isFinite(x)) return this.edgeAtInfinity(below);
+		const j = this.evaluatePiece(below ? 0 : this.pieces - 1, x);
+		j.outside = true;
+		return j;
 	}
 
 	/**
@@ -554,11 +580,7 @@ export class PiecewisePolynomial implements CurveFit {
 
 	toJSON(): FitFileBase {
 		return {
-			format: FIT_FILE_FORMAT,
-			version: FIT_FILE_VERSION,
-			method: this.method,
-			continuity: this.continuity,
-			extrapolation: this.extrapolation,
+			...fitFileEnvelope(this),
 			domain: [encodeNumber(this.domain[0]), encodeNumber(this.domain[1])],
 			options: encodeOptions(this.options),
 			representation: 'piecewise-polynomial',

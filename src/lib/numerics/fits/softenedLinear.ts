@@ -22,8 +22,8 @@
  * pieces alternate line, parabola, line, …; a straight piece that shrinks to
  * nothing is left out.
  */
-import { FitError } from './FitError';
-import { PiecewisePolynomial } from './PiecewisePolynomial';
+import { FitError } from './fitError';
+import { PiecewisePolynomial } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -5,8 +5,8 @@
  * every cubic.
  */
 import { cubicSplineSlopesInto } from './cubicSplineSlopes';
-import { FitError } from './FitError';
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { FitError } from './fitError';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

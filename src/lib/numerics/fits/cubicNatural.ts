@@ -6,7 +6,7 @@
  * Splines, chapter IV; see cubicSplineSlopes.
  */
 import { cubicSplineSlopesInto } from './cubicSplineSlopes';
-import { PiecewisePolynomial, hermiteInPlace } from './PiecewisePolynomial';
+import { PiecewisePolynomial, hermiteInPlace } from './piecewisePolynomial';
 import { prepareData, resolveOptions } from './prepareData';
 import type { CurveFitOptions } from './types';
 

@@ -23,8 +23,8 @@
  * grid-linear is the multilinear interpolant: the same cells with degree 1 in
  * every input and only the corner values.
  */
-import { FitError } from './FitError';
-import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, encodeArray } from './fitFile';
+import { FitError } from './fitError';
+import { decodeArray, encodeArray, fitFileEnvelope } from './fitFile';
 import type { Continuity } from './types';
 import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, SurfaceFitOptions, SurfaceJet } from './surfaceTypes';
 
@@ -33,7 +33,7 @@ export const GRID_MAX_INPUTS = 4;
 /** Knot slopes of one grid line: writes t_i to out[i] for the line's values y (x strictly increasing). */
 export type LineSlopeRule = (x: Float64Array, y: Float64Array, out: Float64Array) => void;
 
-export interface TensorGridInit {
+interface TensorGridInit {
 	method: GridMethod;
 	/** 'C0' (multilinear), 'C1' or 'C2' along every input */
 	continuity: Continuity;
@@ -285,11 +285,7 @@ export class TensorGrid implements SurfaceFit {
 
 	toJSON(): unknown {
 		return {
-			format: FIT_FILE_FORMAT,
-			version: FIT_FILE_VERSION,
-			method: this.method,
-			continuity: this.continuity,
-			extrapolation: this.extrapolation,
+			...fitFileEnvelope(this),
 			domain: this.domain.map((r) => encodeArray(r)),
 			options: { ...this.options },
 			representation: 'tensor-hermite',

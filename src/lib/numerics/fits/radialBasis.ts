@@ -21,8 +21,8 @@
  * centre's second-derivative term and say so in the notes.
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
-import { FitError } from './FitError';
-import { FIT_FILE_FORMAT, FIT_FILE_VERSION, decodeArray, decodeNumber, encodeArray, encodeNumber } from './fitFile';
+import { FitError } from './fitError';
+import { decodeArray, decodeNumber, encodeArray, encodeNumber, fitFileEnvelope } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
 import type { Continuity } from './types';
 
@@ -359,11 +359,7 @@ export class RadialBasis implements SurfaceFit {
 
 	toJSON(): unknown {
 		return {
-			format: FIT_FILE_FORMAT,
-			version: FIT_FILE_VERSION,
-			method: this.method,
-			continuity: this.continuity,
-			extrapolation: this.extrapolation,
+			...fitFileEnvelope(this),
 			domain: this.domain.map((r) => encodeArray(r)),
 			representation: 'radial-basis',
 			options: { ...this.options },
