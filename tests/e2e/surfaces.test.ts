@@ -72,6 +72,14 @@ describe('the demo study over torque × speed', () => {
 		const runs = page.getByTestId('runs');
 		await expect(runs.locator('thead').textContent()).resolves.toContain('(torque, speed)');
 		await expect(runs.locator('tbody tr').first().locator('td').nth(6).textContent()).resolves.toMatch(/^[-\d.e]+, [-\d.e]+$/);
+		// the paths of one start on every fit's map, the C0 grid lines marked on the bilinear one
+		const maps = page.getByTestId('paths-on-map').locator('figure');
+		await expect(maps.count()).resolves.toBe(5);
+		await maps.first().locator('.replay-moving path').first().waitFor({ state: 'attached' });
+		await expect(maps.first().textContent()).resolves.toMatch(/grid-linear \(C0\) · stalled at a kink, \d+ iterations/);
+		await expect(maps.first().locator(`[stroke="#c2410c"] line, line[stroke="#c2410c"]`).count()).resolves.toBeGreaterThanOrEqual(6);
+		await page.getByTestId('paths-start').selectOption('3');
+		await expect(maps.nth(4).textContent()).resolves.toMatch(/grid-cubic-not-a-knot \(C2\) · converged/);
 		await shots(page, 'demo-motor-study');
 		await page.close();
 	});

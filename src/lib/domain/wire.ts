@@ -16,10 +16,12 @@ export interface StudyFit {
 	method: string;
 	options: Record<string, unknown>;
 	continuity: string;
-	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string };
+	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string; /** grid fits: per input, the grid values where the slope jumps */ kinkLines?: number[][] };
 	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; overshootRelative?: number; monotoneKept?: boolean; dataMonotone?: string | null; stretches?: { from: number; to: number; direction: string; kept: boolean; worstAt: number | null }[] | null; spuriousExtrema?: number; error?: string };
 	reference: null | { kind: string; x: number[] | null; f: number | null; roots?: number[]; fRange: number; note?: string; error?: string };
 	samples?: { x: number[]; f: (number | null)[] } | null;
+	/** studies over two inputs, on the page: f over the bounds' box, f[j][i] at (x[i], y[j]); null outside the data under the refuse rule */
+	map?: { x: number[]; y: number[]; f: (number | null)[][] } | null;
 }
 
 /** One run: where it started and ended, how, and what it cost. */
