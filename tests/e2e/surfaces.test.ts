@@ -7,7 +7,7 @@
 import { mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { launch } from './browser';
+import { apiTeamWithDataset, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
 let context: BrowserContext;
@@ -107,5 +107,36 @@ describe('the fit preview of the demo motor map', () => {
 		await page.getByText(/Slices through torque = 45, speed = 3750/).waitFor();
 		await shots(page, 'demo-motor-preview');
 		await page.close();
+	});
+});
+
+describe('a study over three inputs', () => {
+	it('shows the end points input by input and each input against iteration, one line per fit', async () => {
+		const { context: c, close: closeC } = await launch();
+		try {
+			const tag = Math.random().toString(16).slice(2, 10);
+			const axes = [[0, 1, 2, 3], [0, 0.5, 1], [-1, -0.3, 0.4, 1]];
+			const rows: number[][] = [];
+			for (const a of axes[0]) for (const b of axes[1]) for (const d of axes[2]) rows.push([a, b, d, (a - 1.2) ** 2 + (b - 0.4) ** 2 + (d - 0.1) ** 2]);
+			const ds = { name: 'Bowl over three inputs (invented)', columns: [{ name: 'a', role: 'input' }, { name: 'b', role: 'input' }, { name: 'd', role: 'input' }, { name: 'g', role: 'output' }], rows };
+			const { slug, datasetId } = await apiTeamWithDataset(c, { email: `surf3-${tag}@test.example`, password: 'surface-password-1', name: 'Surface Person', workspace: `Surfaces ${tag}` }, ds);
+			const st = await c.request.post(`/api/v1/workspaces/${slug}/studies`, {
+				data: { name: 'Bowl: min g', datasetId, output: 'g', problem: { kind: 'minimize' }, fits: [{ method: 'grid-linear' }, { method: 'grid-cubic-not-a-knot' }], optimizers: [{ method: 'bfgs' }], starts: { latinHypercube: 3, seed: 4 } }
+			});
+			expect(st.status()).toBe(202);
+			const id = (await st.json()).id;
+			for (let i = 0; i < 200 && (await (await c.request.get(`/api/v1/studies/${id}`)).json()).status !== 'done'; i++) await new Promise((r) => setTimeout(r, 300));
+			const page = await c.newPage();
+			await page.goto(`/w/${slug}/studies/${id}`);
+			await expect(page.getByTestId('problem').textContent()).resolves.toMatch(/^Minimize g for a in \[0, 3\], b in \[0, 1\], d in \[-1, 1\] \(the data’s range\)\.$/);
+			await expect(page.getByTestId('end-point-charts').locator('figure').count()).resolves.toBe(2);
+			const coords = page.getByTestId('paths-by-coordinate').locator('figure');
+			await expect(coords.count()).resolves.toBe(3);
+			await coords.first().locator('.replay-moving path').first().waitFor({ state: 'attached' });
+			await shots(page, 'study-three-inputs');
+			await page.close();
+		} finally {
+			await closeC();
+		}
 	});
 });
