@@ -78,6 +78,13 @@ describe('the demo study over torque × speed', () => {
 		await maps.first().locator('.replay-moving path').first().waitFor({ state: 'attached' });
 		await expect(maps.first().textContent()).resolves.toMatch(/grid-linear \(C0\) · stalled at a kink, \d+ iterations/);
 		await expect(maps.first().locator(`[stroke="#c2410c"] line, line[stroke="#c2410c"]`).count()).resolves.toBeGreaterThanOrEqual(6);
+		// the replay's own controls drive every map in lockstep: back to the first iteration, the trails shrink to the start
+		const trail = () => maps.nth(4).locator('.replay-moving path[fill="none"]').first().getAttribute('d');
+		const whole = await trail();
+		await page.getByTestId('paths-controls').getByRole('button', { name: /^First iteration/ }).click();
+		await expect.poll(trail).not.toBe(whole);
+		await page.getByTestId('paths-controls').getByRole('button', { name: /^Last iteration/ }).click();
+		await expect.poll(trail).toBe(whole);
 		await page.getByTestId('paths-start').selectOption('3');
 		await expect(maps.nth(4).textContent()).resolves.toMatch(/grid-cubic-not-a-knot \(C2\) · converged/);
 		await shots(page, 'demo-motor-study');

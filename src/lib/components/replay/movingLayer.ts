@@ -67,12 +67,13 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 		marker.append(el('path', { d: 'M0,0L10,5L0,10Z', fill: colour }));
 		defs.append(marker);
 		const ruleEl = rule ? el('line', { stroke: colour, 'stroke-width': 1, 'stroke-dasharray': '3 3', 'stroke-opacity': 0.7, y1: top, y2: bottom }) : null;
-		const trailEl = trail ? el('path', { fill: 'none', stroke: colour, 'stroke-width': 1.6, 'stroke-dasharray': t.style.dash, 'stroke-opacity': 0.85 }) : null;
-		const dotsEl = trail ? el('path', { fill: colour, 'fill-opacity': 0.55, stroke: 'none' }) : null;
+		// the trail is thin and solid with a dot per iterate, so it never reads as the (dashed) fitted curve beside it
+		const trailEl = trail ? el('path', { fill: 'none', stroke: colour, 'stroke-width': 1.1, 'stroke-opacity': 0.6 }) : null;
+		const dotsEl = trail ? el('path', { fill: colour, 'fill-opacity': 0.7, stroke: 'white', 'stroke-width': 0.6 }) : null;
 		const arrowEl = arrow ? el('line', { stroke: colour, 'stroke-width': 1.8, 'marker-end': `url(#${id}-a${i})` }) : null;
 		const markEl = el('path', { fill: colour, stroke: 'white', 'stroke-width': 1.5 });
 		for (const e of [ruleEl, trailEl, dotsEl, arrowEl, markEl]) if (e) g.append(e);
-		return { t, px, py, ruleEl, trailEl, dotsEl, arrowEl, markEl, lastKey: '' };
+		return { t, px, py, ruleEl, trailEl, dotsEl, arrowEl, markEl, lastKey: '', trailK: -1, trailD: '' };
 	});
 	svg.append(g);
 	const f1 = (v: number) => (Number.isFinite(v) ? v.toFixed(1) : '0');
@@ -80,7 +81,8 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 	const draw = () => {
 		for (const p of parts) {
 			const n = p.px.length;
-			if (!n || !Number.isFinite(p.px[0])) {
+			// not on the clock yet (its lengths are set right after the charts are built): nothing to draw
+			if (!n || !Number.isFinite(p.px[0]) || p.t.clockIndex >= clock.lengths.length) {
 				p.markEl.setAttribute('d', '');
 				continue;
 			}
@@ -94,13 +96,18 @@ export function movingLayer(svg: SVGSVGElement, sx: Scale, sy: Scale, tracks: Tr
 			const cx = p.px[k] + (k < n - 1 ? (p.px[k + 1] - p.px[k]) * frac : 0);
 			const cy = p.py[k] + (k < n - 1 ? (p.py[k + 1] - p.py[k]) * frac : 0);
 			if (p.trailEl && p.dotsEl) {
-				let d = `M${f1(p.px[0])},${f1(p.py[0])}`;
-				let dots = '';
-				for (let i = 1; i <= k; i++) d += `L${f1(p.px[i])},${f1(p.py[i])}`;
-				for (let i = 0; i < k; i++) dots += `M${f1(p.px[i] - 2)},${f1(p.py[i])}a2,2 0 1,0 4,0a2,2 0 1,0 -4,0`;
-				if (frac > 0) d += `L${f1(cx)},${f1(cy)}`;
-				p.trailEl.setAttribute('d', d);
-				p.dotsEl.setAttribute('d', dots);
+				// the trail up to the current iterate and its dots change only with the whole frame;
+				// between frames only the last piece of the trail moves
+				if (k !== p.trailK) {
+					let d = `M${f1(p.px[0])},${f1(p.py[0])}`;
+					let dots = '';
+					for (let i = 1; i <= k; i++) d += `L${f1(p.px[i])},${f1(p.py[i])}`;
+					for (let i = 0; i < k; i++) dots += `M${f1(p.px[i] - 2.5)},${f1(p.py[i])}a2.5,2.5 0 1,0 5,0a2.5,2.5 0 1,0 -5,0`;
+					p.trailD = d;
+					p.trailK = k;
+					p.dotsEl.setAttribute('d', dots);
+				}
+				p.trailEl.setAttribute('d', frac > 0 ? `${p.trailD}L${f1(cx)},${f1(cy)}` : p.trailD);
 			}
 			if (p.arrowEl) {
 				const next = k + 1 < n ? k + 1 : -1;

@@ -309,6 +309,9 @@ export class PiecewisePolynomial implements CurveFit {
 	 * two comparisons is inside the data; the rest (outside, NaN) take the
 	 * extrapolation rule. One loop per degree and output kind keeps the
 	 * common loops free of branches that do not concern them.
+	 * Why the near-copies below stay: these loops are the speed-critical
+	 * evaluation kernels (npm run bench:fits); one shared loop with a degree
+	 * or output switch would put that branch back into every point.
 	 */
 	private batch(xs: ArrayLike<number>, f: Float64Array, df: Float64Array, d2f: Float64Array, full: boolean): number {
 		this.seekMisses = 0;
