@@ -140,6 +140,11 @@ describe('a study over three inputs', () => {
 			const coords = page.getByTestId('paths-by-coordinate').locator('figure');
 			await expect(coords.count()).resolves.toBe(3);
 			await coords.first().locator('.replay-moving path').first().waitFor({ state: 'attached' });
+			// slices of both fits along each input through the current iterate, evaluated in the browser from the fit files
+			const slices = page.getByTestId('paths-slices').locator('figure');
+			await expect(slices.count()).resolves.toBe(3);
+			await slices.first().locator('svg [aria-label="line"] path').first().waitFor({ state: 'attached' });
+			await expect(slices.first().locator('svg [aria-label="line"] path').count()).resolves.toBe(2);
 			await shots(page, 'study-three-inputs');
 			await page.close();
 		} finally {
