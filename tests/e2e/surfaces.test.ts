@@ -152,3 +152,39 @@ describe('a study over three inputs', () => {
 		}
 	});
 });
+
+describe('uploading a grid with a missing cell', () => {
+	it('names the cell, and the table can be taken as scattered points instead', async () => {
+		const { context: c, close: closeC } = await launch();
+		try {
+			const tag = Math.random().toString(16).slice(2, 10);
+			const { slug } = await apiTeamWithDataset(c, { email: `holed-${tag}@test.example`, password: 'surface-password-1', name: 'Surface Person', workspace: `Holes ${tag}` }, { name: 'seed row (invented)', columns: [{ name: 'x', role: 'input' }, { name: 'y', role: 'output' }], rows: [[0, 0], [1, 1]] });
+			const lines = ['T [N·m],w [krpm],eta [-]'];
+			for (const T of [0, 2, 4, 6]) for (const w of [1, 2, 3]) if (!(T === 4 && w === 2)) lines.push(`${T},${w},${(0.9 - 0.01 * (T - 3) ** 2 - 0.02 * (w - 2) ** 2).toFixed(4)}`);
+			const page = await c.newPage();
+			await page.goto(`/w/${slug}/datasets/new`);
+			await page.getByLabel('Choose a file').setInputFiles({ name: 'holed-map.csv', mimeType: 'text/csv', buffer: Buffer.from(lines.join('\n') + '\n') });
+			const status = page.getByTestId('report-status');
+			await status.filter({ hasText: /./ }).waitFor();
+			// T is the input by default (the first column); w is one too
+			await page.getByLabel('Role of w').selectOption('input');
+			await page.getByTestId('report-errors').filter({ hasText: '(T = 4, w = 2)' }).waitFor();
+			await expect(page.getByTestId('report-errors').textContent()).resolves.toMatch(/1 of its 12 points is missing: \(T = 4, w = 2\); add the missing rows, or treat the table as scattered points/);
+			await page.getByTestId('as-scatter').locator('input').check();
+			await status.filter({ hasText: 'Ready to save' }).waitFor();
+			await expect(page.getByTestId('shape').textContent()).resolves.toMatch(/scatter.*taken as scattered points, as asked/s);
+			await shots(page, 'upload-holed-grid');
+			await page.getByLabel('Name').fill(`Holed map ${tag}`);
+			await page.getByRole('button', { name: 'Save dataset' }).click();
+			await page.getByRole('heading', { level: 1, name: `Holed map ${tag}` }).waitFor();
+			await expect(page.getByTestId('dataset-shape').textContent()).resolves.toBe('scatter');
+			// the scatter's preview offers the RBF fits only
+			await page.getByTestId('preview-map').locator('svg image').first().waitFor();
+			await expect(page.getByLabel('Method').locator('option').allTextContents()).resolves.toEqual(expect.arrayContaining([expect.stringMatching(/rbf-thin-plate/)]));
+			await expect(page.getByLabel('Method').locator('option', { hasText: 'grid-' }).count()).resolves.toBe(0);
+			await page.close();
+		} finally {
+			await closeC();
+		}
+	});
+});
