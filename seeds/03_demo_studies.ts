@@ -6,15 +6,15 @@ import { scorecard } from '../src/lib/server/studies/scorecard';
 import * as store from '../src/lib/server/studies/store';
 import { DEMO_EMAIL, DEMO_WORKSPACE } from './01_demo_accounts';
 
-// One finished study per demo curve dataset of the invented "Larkmoor Aero"
-// workspace, so a newcomer lands on results. The runs are computed here, in
+// One finished study per demo dataset of the invented "Larkmoor Aero"
+// workspace (the four curves and the motor map over torque × speed), so a newcomer lands on results. The runs are computed here, in
 // this process, by the same job runner the workers use (no queue at seed
 // time). Idempotent: a study already done under its name is left alone; an
 // unfinished one (an interrupted seed) is made again. Each finished study gets
 // a recorded pick — the scorecard's first-ranked fit, with a rationale written
 // from its own verdict and numbers — so the demo tells the story to its end.
 
-type Plan = { dataset: string; output: RegExp; name: string; problem: Record<string, unknown>; optimizers: string[] };
+type Plan = { dataset: string; output: RegExp; name: string; problem: Record<string, unknown>; optimizers: string[]; fits?: string[] };
 
 const SOLVERS = ['newton', 'sqp', 'bfgs'];
 const OPTIMIZERS = ['sqp', 'bfgs', 'nelder-mead'];
@@ -22,7 +22,18 @@ const PLANS: Plan[] = [
 	{ dataset: 'Propeller efficiency vs advance ratio', output: /^eta/i, name: 'Propeller: peak efficiency', problem: { kind: 'maximize' }, optimizers: OPTIMIZERS },
 	{ dataset: 'Battery pack voltage vs state of charge', output: /voltage/i, name: 'Battery pack: charge at the 300 V cut-off', problem: { kind: 'solve', target: 300 }, optimizers: SOLVERS },
 	{ dataset: 'Wing drag coefficient vs lift coefficient', output: /^CD/i, name: 'Wing: minimum drag', problem: { kind: 'minimize' }, optimizers: OPTIMIZERS },
-	{ dataset: 'Cooling-fan pressure rise vs flow', output: /pressure/i, name: 'Cooling fan: flow at 250 Pa', problem: { kind: 'solve', target: 250 }, optimizers: SOLVERS }
+	{ dataset: 'Cooling-fan pressure rise vs flow', output: /pressure/i, name: 'Cooling fan: flow at 250 Pa', problem: { kind: 'solve', target: 250 }, optimizers: SOLVERS },
+	// two inputs: the bilinear fit's gradient jumps on every grid line, so its runs stall there; the tensor cubics
+	// converge. Speeds from 3,500 rpm up (the cruise end of the map), where the smooth fits have one optimum each
+	// but the natural spline, whose end conditions add a second along the top edge.
+	{
+		dataset: 'Motor efficiency map',
+		output: /efficiency/i,
+		name: 'Motor: peak efficiency over torque × speed',
+		problem: { kind: 'maximize', bounds: [[null, null], [3500, 4000]] },
+		optimizers: ['sqp', 'bfgs'],
+		fits: ['grid-linear', 'grid-pchip', 'grid-akima', 'grid-cubic-natural', 'grid-cubic-not-a-knot']
+	}
 ];
 const FITS = ['linear', 'pchip', 'akima', 'cubic-natural', 'softened-linear', 'smoothing-spline'];
 
@@ -39,7 +50,6 @@ export async function seed(knex: Knex): Promise<void> {
 		console.log('seed 03: no demo datasets in the demo workspace yet; no demo studies made');
 		return;
 	}
-	for (const d of datasets) if (d.shape !== 'curve' && !PLANS.some((p) => p.dataset === d.name)) console.log(`seed 03: "${d.name}" is a ${d.shape} dataset; only curve datasets can be studied yet`);
 
 	for (const plan of PLANS) {
 		const d = datasets.find((x) => x.name === plan.dataset); // newest version first
@@ -61,7 +71,7 @@ export async function seed(knex: Knex): Promise<void> {
 			datasetId: d.id,
 			output,
 			problem: plan.problem,
-			fits: FITS.map((method) => ({ method })),
+			fits: (plan.fits ?? FITS).map((method) => ({ method })),
 			optimizers: plan.optimizers.map((method) => ({ method })),
 			starts: { latinHypercube: 20, seed: 1 }
 		});

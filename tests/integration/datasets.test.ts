@@ -302,7 +302,8 @@ describe('fit preview', () => {
 		await problem({ output: 'eta', method: 'linear', options: { extrapolation: 'wrap' } }, 'options.extrapolation', 'extrapolation must be one of refuse, hold, linear, extend');
 		await problem({ output: 'eta', method: 'linear', at: [0.5, 7] }, 'at.1', 'x = 7 lies outside the data');
 		await problem({ output: 'eta', method: 'linear', at: 'everywhere' }, 'at', 'at must be a list of numbers');
-		await problem({ output: 'v', method: 'linear' }, 'output', 'the fit preview covers curves (one input); this dataset is a grid', gridId);
+		// a grid takes the surface methods (tests/integration/datasets-surface-preview.test.ts)
+		await problem({ output: 'v', method: 'linear' }, 'method', 'method must be one of grid-linear', gridId);
 		const outside = await json<Preview>(await preview(t.owner, { output: 'eta', method: 'linear', options: { extrapolation: 'hold' }, at: [7] }));
 		expect(outside.at!.f).toEqual([0.45]);
 	});

@@ -210,3 +210,45 @@ export function separateOptima(buckets: { bucket: number; n: number }[], lo: num
 	if (cur) out.push({ x: cur.sum / cur.n, share: cur.n / total });
 	return out;
 }
+
+/**
+ * The n-input form of separateOptima: converged end points binned per input
+ * (bins of `width[k]` from `lo[k]`), bins touching in every input (indices
+ * within 1, so diagonal neighbours too) merged into one optimum at the
+ * count-weighted mean of its bin centres (common practice, no source).
+ * `x` is the optimum's first input, `point` all of them.
+ */
+export function separateOptimaN(points: readonly (readonly number[])[], lo: readonly number[], width: readonly number[]): { x: number; point: number[]; share: number }[] {
+	const bins = new Map<string, { idx: number[]; n: number }>();
+	for (const p of points) {
+		if (!p.every(Number.isFinite)) continue;
+		const idx = p.map((v, k) => Math.floor((v - lo[k]) / width[k]));
+		const key = idx.join(',');
+		const b = bins.get(key);
+		if (b) b.n++;
+		else bins.set(key, { idx, n: 1 });
+	}
+	const list = [...bins.values()];
+	const parent = list.map((_, i) => i);
+	const find = (i: number): number => (parent[i] === i ? i : (parent[i] = find(parent[i])));
+	// quadratic in the number of occupied bins, which is at most the number of converged runs of one row
+	for (let i = 0; i < list.length; i++) {
+		for (let j = i + 1; j < list.length; j++) {
+			if (list[i].idx.every((v, k) => Math.abs(v - list[j].idx[k]) <= 1)) parent[find(i)] = find(j);
+		}
+	}
+	const total = list.reduce((s, b) => s + b.n, 0);
+	const groups = new Map<number, { sum: number[]; n: number }>();
+	list.forEach((b, i) => {
+		const g = groups.get(find(i)) ?? { sum: b.idx.map(() => 0), n: 0 };
+		b.idx.forEach((v, k) => (g.sum[k] += (lo[k] + (v + 0.5) * width[k]) * b.n));
+		g.n += b.n;
+		groups.set(find(i), g);
+	});
+	return [...groups.values()]
+		.map((g) => {
+			const point = g.sum.map((v) => v / g.n);
+			return { x: point[0], point, share: g.n / total };
+		})
+		.sort((a, b) => b.share - a.share || a.x - b.x);
+}

@@ -16,10 +16,12 @@ export interface StudyFit {
 	method: string;
 	options: Record<string, unknown>;
 	continuity: string;
-	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string };
+	smoothness: null | { declared?: string; measured?: string; maxJumpD1?: number; maxJumpD2?: number; worst?: { x: number; jumpD1: number; jumpD2: number }[]; error?: string; /** grid fits: per input, the grid values where the slope jumps */ kinkLines?: number[][] };
 	fidelity: null | { looRmse?: number; looMax?: number; looPoints?: number; overshoot?: number; overshootRelative?: number; monotoneKept?: boolean; dataMonotone?: string | null; stretches?: { from: number; to: number; direction: string; kept: boolean; worstAt: number | null }[] | null; spuriousExtrema?: number; error?: string };
 	reference: null | { kind: string; x: number[] | null; f: number | null; roots?: number[]; fRange: number; note?: string; error?: string };
 	samples?: { x: number[]; f: (number | null)[] } | null;
+	/** studies over two inputs, on the page: f over the bounds' box, f[j][i] at (x[i], y[j]); null outside the data under the refuse rule */
+	map?: { x: number[]; y: number[]; f: (number | null)[][] } | null;
 }
 
 /** One run: where it started and ended, how, and what it cost. */
@@ -107,8 +109,8 @@ export interface ScorecardRow {
 	atKink: number;
 	/** runs whose end point lies outside the data's range (on the fit's extrapolation) */
 	outsideData: number;
-	/** range of x* and of f* over the converged runs */
-	spread: { x: number; f: number } | null;
+	/** range of x* (first input) and of f* over the converged runs; `inputs`: the range of each input (two or more inputs) */
+	spread: { x: number; f: number; inputs?: number[] } | null;
 	reference: { x: number[] | null; f: number | null } | null;
 	/** how far the best end point is from the reference: |Δx| and the shortfall in f (0 when it matches or beats it) */
 	gap: { x: number | null; f: number } | null;
@@ -117,8 +119,8 @@ export interface ScorecardRow {
 	fidelity: { looRmse: number | null; overshoot: number | null; overshootRelative?: number | null; monotoneKept: boolean | null; spuriousExtrema: number | null } | null;
 	/** whole-curve monotonicity when the data are monotone, else per monotone stretch of the data */
 	monotone: Monotone;
-	/** separate places the converged runs ended (first coordinate), with the share of converged runs at each */
-	optima: { x: number; share: number }[] | null;
+	/** separate places the converged runs ended (first coordinate; `point`: every input, for two or more), with the share of converged runs at each */
+	optima: { x: number; point?: number[]; share: number }[] | null;
 	verdict: Verdict;
 }
 
@@ -150,5 +152,34 @@ export interface StudyPage {
 	fits: StudyFit[];
 	scorecard: ScorecardRow[];
 	runs: RunColumns | null;
-	data: { x: number[]; y: number[] } | null;
+	data: { x: number[]; y: number[]; inputs?: number[][] } | null;
+}
+
+/** The dataset page's fit preview of a grid or scattered table (`POST /api/v1/datasets/:id/fit-preview` on a dataset of two or more inputs). */
+export interface SurfacePreview {
+	method: string;
+	dimension: number;
+	domain: [number, number][];
+	through: number[];
+	continuity: {
+		declared: string;
+		measured: string;
+		/** per input: the class measured along it and (grid fits) its worst grid lines, largest slope jump first */
+		perInput: { declared: string; measured: string; worst: { at: number; slopeJump: number; curvatureJump: number }[]; kinks: number; kinkAt: number[] }[];
+	};
+	fidelity: {
+		/** 'grid-lines': interior grid lines left out one at a time and predicted; 'rippa': RBF leave-one-out in closed form */
+		method: 'grid-lines' | 'rippa' | 'none';
+		looRmse: number | null;
+		looMax: number | null;
+		worstAt: number[] | null;
+		points: number;
+		/** RBF: estimate of the condition number of the solved system */
+		condition: number | null;
+	};
+	/** f over inputs map[0] × map[1] (the others at `through`); f[j][i] at (x[i], y[j]); null outside the data under the refuse rule */
+	map: { inputs: [number, number]; x: number[]; y: number[]; f: (number | null)[][] };
+	/** along each input through `through`: value and slope along it */
+	slices: { input: number; x: number[]; f: (number | null)[]; df: (number | null)[] }[];
+	notes: string[];
 }

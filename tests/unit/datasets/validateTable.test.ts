@@ -5,8 +5,8 @@ import { validateTable } from '../../../src/lib/server/datasets/validateTable';
 import type { Role } from '../../../src/lib/server/datasets/types';
 import { parseFile } from './helpers';
 
-async function check(text: string, roles?: Record<string, Role>) {
-	return validateTable(await parseFile(text), roles);
+async function check(text: string, roles?: Record<string, Role>, options?: { shape?: 'scatter' }) {
+	return validateTable(await parseFile(text), roles, options);
 }
 
 /** "a,b\n" + rows of the 3 × 4 grid torque ∈ {10, 20, 30} × speed ∈ {1000, …, 4000}, eta invented. */
@@ -190,9 +190,28 @@ describe('validateTable: shape', () => {
 			{
 				code: 'grid-missing-points',
 				message:
-					'the inputs look like a 3 × 4 grid, but 1 of its 12 points is missing: (torque = 20, speed = 3000); add the missing rows'
+					'the inputs look like a 3 × 4 grid, but 1 of its 12 points is missing: (torque = 20, speed = 3000); add the missing rows, or treat the table as scattered points (shape "scatter")'
 			}
 		]);
+	});
+
+	test('a grid with a missing cell taken as scattered points when asked, the cell still named', async () => {
+		const report = await check(
+			motorGrid((t, s) => t === 20 && s === 3000),
+			{ torque: 'input', speed: 'input' },
+			{ shape: 'scatter' }
+		);
+		expect(report.ok).toBe(true);
+		expect(report.shape).toBe('scatter');
+		expect(report.shapeReason).toBe('taken as scattered points, as asked: the values "torque" (3 values), "speed" (4 values) nearly fill a 3 × 4 grid (11 of 12 points)');
+		expect(report.notes).toContain('the inputs nearly fill a 3 × 4 grid (1 of 12 points missing: (torque = 20, speed = 3000)); taken as scattered points, as asked (shape "scatter")');
+	});
+
+	test('a full grid taken as scattered points when asked', async () => {
+		const report = await check(motorGrid(), { torque: 'input', speed: 'input' }, { shape: 'scatter' });
+		expect(report.ok).toBe(true);
+		expect(report.shape).toBe('scatter');
+		expect(report.shapeReason).toMatch(/^taken as scattered points, as asked: .* form a full 3 × 4 grid \(12 of 12 points\)$/);
 	});
 
 	test('a grid missing several cells lists them', async () => {

@@ -3,7 +3,7 @@
 // the cases are the ones a design review would raise.
 import { describe, expect, it } from 'vitest';
 import { monotoneOf, rank, type ScorecardRow } from '$lib/server/studies/scorecard';
-import { separateOptima, verdict, type VerdictInput } from '$lib/domain/verdict';
+import { separateOptima, separateOptimaN, verdict, type VerdictInput } from '$lib/domain/verdict';
 
 interface Case {
 	method: string;
@@ -138,6 +138,28 @@ describe('the scorecard verdict and ranking', () => {
 		expect(o[0].share).toBeCloseTo(0.8, 12);
 		expect(o[1].x).toBeCloseTo(0.405, 12);
 		expect(separateOptima([], 0, 1)).toEqual([]);
+	});
+
+	it('over two inputs: end points apart in the second input only are separate optima; diagonal neighbours are one (common practice, no source)', () => {
+		// bins 0.1 wide from 0 in both inputs
+		const pts = [
+			[0.51, 0.21],
+			[0.52, 0.22],
+			[0.61, 0.31], // the diagonal neighbour bin (6, 3) of (5, 2): the same optimum
+			[0.51, 0.91], // same first input, far in the second: another optimum
+			[Number.NaN, 0.5] // not finite: left out
+		];
+		const o = separateOptimaN(pts, [0, 0], [0.1, 0.1]);
+		expect(o).toHaveLength(2);
+		expect(o[0].share).toBeCloseTo(0.75, 12);
+		expect(o[0].point[0]).toBeCloseTo((0.55 * 2 + 0.65) / 3, 12);
+		expect(o[0].point[1]).toBeCloseTo((0.25 * 2 + 0.35) / 3, 12);
+		expect(o[0].x).toBe(o[0].point[0]);
+		expect(o[1].point[0]).toBeCloseTo(0.55, 12);
+		expect(o[1].point[1]).toBeCloseTo(0.95, 12);
+		// the 1-input rule on the first input alone would call these one optimum
+		expect(separateOptima([{ bucket: 5, n: 3 }, { bucket: 6, n: 1 }], 0, 0.1)).toHaveLength(1);
+		expect(separateOptimaN([], [0, 0], [1, 1])).toEqual([]);
 	});
 
 	it('never says “monotone kept” where the data are not monotone', () => {

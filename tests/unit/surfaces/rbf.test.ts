@@ -192,6 +192,11 @@ describe('RBF fits: bad input', () => {
 	it('coincident points are refused, naming both rows', () => {
 		expect(msg(() => fitScatter('rbf-thin-plate', [...x, [1, 0]], [1, 2, 3, 4, 5, 6]))).toMatch(/^coincident-points: rbf-thin-plate: rows 2 and 6 have the same inputs/);
 	});
+	it('distinct points that meet once scaled to unit range are refused as coincident, saying why (common practice, no source)', () => {
+		// (0.3 + 1e6) and (0.30000000000000004 + 1e6) round to the same double, so the scaled points are equal
+		const far = [[-1e6, 0], [0.3, 0.5], [0.30000000000000004, 0.5], [1, 1], [0.5, 0.2]];
+		expect(msg(() => fitScatter('rbf-thin-plate', far, [1, 2, 3, 4, 5]))).toMatch(/^coincident-points: rbf-thin-plate: rows 2 and 3 differ by less than the rounding of the inputs scaled to unit range/);
+	});
 	it('too many inputs, too few points, mismatched lengths, bad options, constant input', () => {
 		expect(msg(() => fitScatter('rbf-gaussian', [[1, 2, 3, 4, 5, 6, 7]], [1]))).toMatch(/^too-many-inputs: .*at most 6 inputs, got 7/);
 		expect(msg(() => fitScatter('rbf-gaussian', x.slice(0, 3), [1, 2, 3]))).toMatch(/^too-few-points: rbf-gaussian: 3 points; at least 4/);

@@ -119,6 +119,19 @@ export interface SurfaceFidelityAudit {
 	linesLeftOut: number;
 }
 
+/** The data values at the nodes of a grid fit (row-major, last input fastest): slot 0 of each node of the cubic representation. */
+export function gridNodeValues(fit: TensorGrid): Float64Array {
+	const stride = fit.cubic ? 1 << fit.dimension : 1;
+	const out = new Float64Array(fit.data.length / stride);
+	for (let i = 0; i < out.length; i++) out[i] = fit.data[i * stride];
+	return out;
+}
+
+/** Leave-one-grid-line-out fidelity of a fitted grid (its own method, axes and node values). */
+export function auditGridFitFidelity(fit: TensorGrid, maxLinesPerInput = 12): SurfaceFidelityAudit {
+	return auditSurfaceFidelity(fit.method as GridMethod, fit.axes, gridNodeValues(fit), maxLinesPerInput);
+}
+
 /**
  * Leave-one-grid-line-out fidelity of a grid method on (axes, values), up to
  * `maxLinesPerInput` interior lines per input (evenly chosen).

@@ -159,7 +159,7 @@ export class RadialBasis implements SurfaceFit {
 		const c = new Float64Array(n * d);
 		for (let i = 0; i < n; i++) for (let k = 0; k < d; k++) c[i * d + k] = (xIn[i][k] - this.lo[k]) / this.span[k];
 		this.centres = c;
-		refuseCoincident(c, n, d, method);
+		refuseCoincident(c, n, d, method, xIn);
 		// the saddle-point matrix
 		const N = n + tailSize;
 		const M = new Matrix(N, N);
@@ -434,7 +434,7 @@ export class RadialBasis implements SurfaceFit {
 }
 
 /** Exact duplicates among the scaled points → FitError naming the rows (sorted sweep, O(n log n)). */
-function refuseCoincident(c: Float64Array, n: number, d: number, method: string): void {
+function refuseCoincident(c: Float64Array, n: number, d: number, method: string, raw: readonly ArrayLike<number>[]): void {
 	const order = Array.from({ length: n }, (_, i) => i);
 	order.sort((a, b) => {
 		for (let k = 0; k < d; k++) {
@@ -449,7 +449,11 @@ function refuseCoincident(c: Float64Array, n: number, d: number, method: string)
 		let same = true;
 		for (let k = 0; k < d && same; k++) same = c[a * d + k] === c[b * d + k];
 		if (same) {
-			throw new FitError('coincident-points', `${method}: rows ${a + 1} and ${b + 1} have the same inputs; an interpolant cannot take two values there (average them or drop one)`, [a + 1, b + 1]);
+			let exact = true;
+			for (let k = 0; k < d && exact; k++) exact = raw[a][k] === raw[b][k];
+			// distinct inputs can still meet once scaled to unit range (they differ below its rounding)
+			const how = exact ? 'have the same inputs' : 'differ by less than the rounding of the inputs scaled to unit range, so they coincide';
+			throw new FitError('coincident-points', `${method}: rows ${a + 1} and ${b + 1} ${how}; an interpolant cannot take two values there (average them or drop one)`, [a + 1, b + 1]);
 		}
 	}
 }

@@ -39,11 +39,15 @@ const PROBLEM_ROWS = 30;
 const ROLE_ERROR = { error: 'a column role must be "input" or "output"' };
 
 /** The fields that travel with an upload (multipart form or the upload page). */
+/** The one shape a user may choose: "scatter" takes a grid-like table (a grid with missing cells, say) as scattered points. */
+export const SHAPE_CHOICE = z.enum(['scatter'], { error: 'shape may only be "scatter" (take the table as scattered points); leave it out to let the inputs decide' }).optional();
+
 const uploadFieldsSchema = z.object({
 	name: z.string().trim().min(1, 'name cannot be empty').max(MAX_NAME_LENGTH, `name can be at most ${MAX_NAME_LENGTH} characters`).optional(),
 	description: z.string().trim().max(MAX_DESCRIPTION, `description can be at most ${MAX_DESCRIPTION} characters`).optional(),
 	sheet: z.string().trim().min(1).max(100, 'sheet name can be at most 100 characters').optional(),
-	roles: z.record(z.string(), z.enum(['input', 'output'], ROLE_ERROR), { error: 'roles must be an object { "column name": "input" | "output" }' }).optional()
+	roles: z.record(z.string(), z.enum(['input', 'output'], ROLE_ERROR), { error: 'roles must be an object { "column name": "input" | "output" }' }).optional(),
+	shape: SHAPE_CHOICE
 });
 type UploadFields = z.infer<typeof uploadFieldsSchema>;
 
@@ -142,7 +146,8 @@ export function uploadFields(form: FormData): UploadFields {
 		name: text(form, 'name'),
 		description: text(form, 'description'),
 		sheet: text(form, 'sheet'),
-		roles
+		roles,
+		shape: text(form, 'shape')
 	});
 	if (!parsed.success) {
 		const details: ErrorDetail[] = parsed.error.issues.map((i) => ({ field: i.path.map(String).join('.') || 'body', problem: i.message }));
@@ -301,6 +306,6 @@ export async function save(db: import('knex').Knex, input: SaveInput): Promise<d
 }
 
 /** Runs the checks: validateTable with the caller's roles. */
-export function check(parsed: ParsedTable, roles?: Record<string, Role>): ValidationReport {
-	return validateTable(parsed, roles);
+export function check(parsed: ParsedTable, roles?: Record<string, Role>, options: { shape?: 'scatter' } = {}): ValidationReport {
+	return validateTable(parsed, roles, options);
 }

@@ -16,9 +16,11 @@ const MAX_SCATTER_INPUTS = 6;
  * Checks a parsed table as a dataset: roles, numbers in every cell, inputs
  * that vary and do not repeat, and its shape (curve, grid or scatter).
  * `roles` overrides roles set on the columns; by default the first column
- * is the input and the rest are outputs.
+ * is the input and the rest are outputs. `options.shape = 'scatter'` takes a
+ * table of several inputs as scattered points even where its inputs (nearly)
+ * fill a grid: the user's choice for a grid with missing cells.
  */
-export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>): ValidationReport {
+export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>, options: { shape?: 'scatter' } = {}): ValidationReport {
 	const errors: ValidationIssue[] = [];
 	// problems found but not kept (each check keeps its first MAX_LISTED_PROBLEMS in row order), by group
 	const uncollected = new Map<string, number>();
@@ -104,7 +106,8 @@ export function validateTable(parsed: ParsedTable, roles?: Record<string, Role>)
 			parsed.rowNumbers,
 			errors,
 			warnings,
-			notes
+			notes,
+			options.shape === 'scatter'
 		));
 	}
 
@@ -203,7 +206,8 @@ function analyseInputs(
 	rowNumbers: number[],
 	errors: ValidationIssue[],
 	warnings: string[],
-	notes: string[]
+	notes: string[],
+	asScatter = false
 ): ShapeResult {
 	const n = cols[0].length;
 	const k = cols.length;
@@ -291,14 +295,16 @@ function analyseInputs(
 
 	const dims = axes.map((a) => a.length).join(' × ');
 	const counts = axes.map((a, i) => `${quoted[i]} (${a.length} values)`).join(', ');
-	if (distinct === product) {
+	if (distinct === product && !asScatter) {
 		if (k > MAX_GRID_INPUTS) warnings.push(`no grid fit takes more than ${MAX_GRID_INPUTS} inputs; this grid has ${k}`);
 		return {
 			shape: 'grid',
 			shapeReason: `every combination of the input values ${counts} appears: a full ${dims} grid of ${formatCount(product)} points`
 		};
 	}
-	if (distinct >= GRID_MIN_FILL * product && axes.every((a) => a.length >= 2)) {
+	if (distinct === product) {
+		notes.push(`the inputs form a full ${dims} grid; taken as scattered points, as asked (shape "scatter")`);
+	} else if (distinct >= GRID_MIN_FILL * product && axes.every((a) => a.length >= 2)) {
 		// product ≤ n / GRID_MIN_FILL here, so the dense table exists
 		const missing: string[] = [];
 		for (let key = 0; key < product && missing.length < MAX_MISSING_LISTED; key++) {
@@ -311,10 +317,17 @@ function analyseInputs(
 			missing.push(`(${parts.join(', ')})`);
 		}
 		const gap = product - distinct;
-		errors.push({
-			code: 'grid-missing-points',
-			message: `the inputs look like a ${dims} grid, but ${gap} of its ${formatCount(product)} points ${gap === 1 ? 'is' : 'are'} missing: ${missing.join(', ')}${gap > missing.length ? ', …' : ''}; add the missing rows`
-		});
+		const listedMissing = `${missing.join(', ')}${gap > missing.length ? ', …' : ''}`;
+		if (asScatter) {
+			notes.push(`the inputs nearly fill a ${dims} grid (${gap} of ${formatCount(product)} points missing: ${listedMissing}); taken as scattered points, as asked (shape "scatter")`);
+		} else {
+			errors.push({
+				code: 'grid-missing-points',
+				message: `the inputs look like a ${dims} grid, but ${gap} of its ${formatCount(product)} points ${gap === 1 ? 'is' : 'are'} missing: ${listedMissing}; add the missing rows, or treat the table as scattered points (shape "scatter")`
+			});
+		}
+	}
+	if (distinct >= GRID_MIN_FILL * product && axes.every((a) => a.length >= 2) && !asScatter) {
 		return {
 			shape: 'grid',
 			shapeReason: `the input values ${counts} nearly fill a ${dims} grid (${formatCount(distinct)} of ${formatCount(product)} points)`
@@ -328,9 +341,12 @@ function analyseInputs(
 		});
 	}
 	if (k > MAX_SCATTER_INPUTS) warnings.push(`no scatter fit takes more than ${MAX_SCATTER_INPUTS} inputs; this table has ${k}`);
+	const gridLike = distinct === product || (distinct >= GRID_MIN_FILL * product && axes.every((a) => a.length >= 2));
 	return {
 		shape: 'scatter',
-		shapeReason: `the ${formatCount(distinct)} input points do not form a grid: the values ${counts} would make ${formatCount(product)} combinations`
+		shapeReason: gridLike
+			? `taken as scattered points, as asked: the values ${counts} ${distinct === product ? 'form a full' : 'nearly fill a'} ${dims} grid (${formatCount(distinct)} of ${formatCount(product)} points)`
+			: `the ${formatCount(distinct)} input points do not form a grid: the values ${counts} would make ${formatCount(product)} combinations`
 	};
 }
 

@@ -11,6 +11,7 @@ import { FitError, type FitErrorCode } from '../../numerics/fits/fitError';
 import { fitCurve } from '../../numerics/fits/fitCurve';
 import type { CurveFitOptions, CurveMethod } from '../../numerics/fits/types';
 import { sizeProblem } from './limits';
+import { surfacePreview, type SurfacePreviewResult, type SurfacePreviewTask } from './surfacePreview';
 import { buildSurfaceFits, type SurfaceBuildTask } from './surfaceWork';
 
 // Evenly spaced samples across the domain; the knots are added when there are
@@ -55,7 +56,7 @@ export type BuildTask = {
 	columns: Record<string, Float64Array>;
 	fits: { method: CurveMethod; options: CurveFitOptions; outputs: string[] }[];
 };
-export type FitTask = PreviewTask | BuildTask | SurfaceBuildTask;
+export type FitTask = PreviewTask | BuildTask | SurfaceBuildTask | SurfacePreviewTask;
 
 export type PreviewResult = { ok: true; preview: FitPreview } | { ok: false; problem: FitProblem };
 /** Per study fit: the fit files (JSON) of each output in order, or the first problem. */
@@ -133,7 +134,8 @@ export function buildFits(task: BuildTask): BuildResult {
 	return { ok: true, fits: out };
 }
 
-export function runFitTask(task: FitTask): PreviewResult | BuildResult {
+export function runFitTask(task: FitTask): PreviewResult | BuildResult | SurfacePreviewResult {
 	if (task.kind === 'build-surface') return buildSurfaceFits(task);
+	if (task.kind === 'surface-preview') return surfacePreview(task);
 	return task.kind === 'preview' ? previewFit(task) : buildFits(task);
 }

@@ -48,6 +48,7 @@ const compact = (a: Float64Array) => (a.byteOffset === 0 && a.byteLength === a.b
 function compactTask(task: FitTask | ParseTask): FitTask | ParseTask {
 	if (task.kind === 'parse') return task;
 	if (task.kind === 'preview') return { ...task, x: compact(task.x), y: compact(task.y) };
+	if (task.kind === 'surface-preview') return { ...task, inputs: task.inputs.map(compact), y: compact(task.y) };
 	if (task.kind === 'build-surface') return { ...task, inputs: task.inputs.map(compact), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 	return { ...task, x: compact(task.x), columns: Object.fromEntries(Object.entries(task.columns).map(([k, v]) => [k, compact(v)])) };
 }

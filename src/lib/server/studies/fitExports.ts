@@ -5,7 +5,7 @@ import { csvText } from '../../csv';
 import { z } from 'zod';
 import { CAUTION } from '../../caution';
 import { createFitExport, fitExportText, generatePython, generateTypeScript, type FitExport, type FitExportSource } from '../../numerics/export';
-import { fitFromJSON } from '../../numerics/fits';
+import { fitFromJSON, isSurfaceFitFile, surfaceFromJSON } from '../../numerics/fits';
 import { fail4xx } from '../api';
 import { version as KINKLESS_VERSION } from '../../../../package.json';
 
@@ -57,6 +57,7 @@ function derivUnit(out: { unit: string | null }, inp: { unit: string | null }, p
 
 /** x, f, f′, f″ sampled evenly over the domain plus at every knot; units in the header row; the caution as a trailing comment line. */
 function samplesCsv(doc: FitExport): string {
+	if (isSurfaceFitFile(doc.fit)) return surfaceSamplesCsv(doc);
 	const fit = fitFromJSON(doc.fit);
 	const [lo, hi] = fit.domain;
 	const pts = new Set<number>();
@@ -109,7 +110,7 @@ export function exportResponse(doc: FitExport, format: ExportFormat, stemParts: 
 /** Export one of a study's fits. 404 when the fit is not in this study, 409 when the study failed. */
 export async function studyFitExport(
 	db: import('knex').Knex,
-	study: { id: string; status: string; error: string | null; datasetId: string; output: string; name: string; spec: { dataset: { name: string; version: number; input: { name: string; unit: string | null }; output: { name: string; unit: string | null } } } },
+	study: { id: string; status: string; error: string | null; datasetId: string; output: string; name: string; spec: { dataset: { name: string; version: number; input: { name: string; unit: string | null }; inputs?: { name: string; unit: string | null }[]; output: { name: string; unit: string | null } } } },
 	fitId: string,
 	format: ExportFormat
 ): Promise<Response> {
@@ -123,8 +124,45 @@ export async function studyFitExport(
 	const d = study.spec.dataset;
 	const doc = await buildFitExport(row.fit, {
 		dataset: { name: d.name, version: d.version, sha256: dataset?.source_sha256 ?? '' },
-		inputs: [d.input],
+		// every input of a surface, in the dataset's column order
+		inputs: d.inputs ?? [d.input],
 		output: d.output
 	});
 	return exportResponse(doc, format, [d.name, `v${d.version}`, d.output.name, String(row.method)]);
+}
+
+/** Most rows of a surface's CSV sampling (an even grid over the data box, the same count per input). */
+const CSV_SURFACE_ROWS = 20_000;
+
+/** A surface sampled on an even grid over its data box: the inputs, f and ∂f/∂x_k per row (last input fastest). */
+function surfaceSamplesCsv(doc: FitExport): string {
+	const fit = surfaceFromJSON(doc.fit);
+	const d = fit.dimension;
+	const per = Math.max(2, Math.min(101, Math.floor(CSV_SURFACE_ROWS ** (1 / d))));
+	const ins = doc.source.inputs;
+	const out = doc.source.output;
+	const name = (k: number) => ins[k]?.name ?? `x${k + 1}`;
+	const header = [
+		...fit.domain.map((_, k) => `${name(k)}${unitOf(ins[k] ?? { unit: null })}`),
+		`${out.name}${unitOf(out)}`,
+		...fit.domain.map((_, k) => `d${out.name}/d${name(k)}${derivUnit(out, ins[k] ?? { unit: null }, 1)}`)
+	].map(csvText);
+	const lines = [header.join(',')];
+	const idx = new Array<number>(d).fill(0);
+	const x = new Float64Array(d);
+	const grad = new Float64Array(d);
+	for (let row = 0; row < per ** d; row++) {
+		for (let k = 0; k < d; k++) {
+			const [lo, hi] = fit.domain[k];
+			x[k] = idx[k] === per - 1 ? hi : lo + ((hi - lo) * idx[k]) / (per - 1);
+		}
+		const f = fit.valueGradient(x, grad);
+		lines.push([...x, f, ...grad].join(','));
+		for (let k = d - 1; k >= 0; k--) {
+			if (++idx[k] < per) break;
+			idx[k] = 0;
+		}
+	}
+	lines.push(csvText(`# ${doc.fit.method} fit of ${doc.source.dataset.name} v${doc.source.dataset.version} (${doc.checksum}). ${CAUTION}`));
+	return `${lines.join('\r\n')}\r\n`;
 }

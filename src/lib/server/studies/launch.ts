@@ -135,7 +135,10 @@ export async function launchStudy(db: Knex, args: LaunchArgs): Promise<{ id: str
 	if (!result.ok) {
 		const spec = input.fits[result.index];
 		const field = surface && result.problem.kind === 'fit' && FIT_FIELD[result.problem.code] ? `fits.${result.index}.${FIT_FIELD[result.problem.code]}` : `fits.${result.index}`;
-		reject(field, `${spec.method} on "${result.output}": ${result.problem.message}`);
+		// the numerics number the inputs from 1; the user knows them by name
+		const own = result.problem.message.startsWith(`${spec.method}: `) ? result.problem.message.slice(spec.method.length + 2) : result.problem.message;
+		const named = surface ? own.replace(/\binput (\d)\b/g, (m, k: string) => (inputNames[Number(k) - 1] ? `input ${k} ("${inputNames[Number(k) - 1]}")` : m)) : own;
+		reject(field, `${spec.method} on "${result.output}": ${named}`);
 	}
 	const files = (result as Extract<BuildResult, { ok: true }>).fits;
 	const built: { fit: { continuity: string; extrapolation: string }; fitFile: string; constraintFiles: string[] }[] = input.fits.map((spec, i) => {

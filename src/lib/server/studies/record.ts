@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { Knex } from 'knex';
 import { CAUTION } from '../../caution';
-import { fitFromJSON } from '../../numerics/fits';
+import { fitFromJSON, isSurfaceFitFile, surfaceFromJSON } from '../../numerics/fits';
 import { fail4xx } from '../api';
 import { scorecard } from './scorecard';
 import * as store from './store';
@@ -79,7 +79,30 @@ async function studyRecordHtml(db: Knex, study: store.Study, opts: RecordOptions
 
 	const charts: string[] = [];
 	const chartFits = pickedRow ? [pickedRow, ...rows.filter((r) => r.id !== pickedRow.id)] : rows;
+	const inputs = spec.dataset.inputs?.length ? spec.dataset.inputs : [spec.dataset.input];
 	for (const r of chartFits.slice(0, 4)) {
+		if (isSurfaceFitFile(typeof r.fit === 'string' ? JSON.parse(r.fit) : r.fit)) {
+			// several inputs: slices of the fit through its best end point (or the bounds' centre), along each input for the pick, the first for the others
+			const fit = surfaceFromJSON(r.fit);
+			const isPick = r.id === pickedRow?.id;
+			const through = bestOf(r.id)?.best?.x ?? spec.problem.bounds.map(([lo, hi]) => (lo + hi) / 2);
+			for (let k = 0; k < (isPick ? fit.dimension : 1); k++) {
+				const [lo, hi] = spec.problem.bounds[k];
+				const x = Array.from({ length: CHART_SAMPLES + 1 }, (_, i) => (i === CHART_SAMPLES ? hi : lo + ((hi - lo) * i) / CHART_SAMPLES));
+				const y = x.map((v) => {
+					const p = through.slice();
+					p[k] = v;
+					try {
+						return fit.value(p);
+					} catch {
+						return Number.NaN; // outside the data under the refuse rule
+					}
+				});
+				const others = inputs.flatMap((c, j) => (j === k ? [] : [`${c.name} = ${fmt(through[j])}`])).join(', ');
+				charts.push(lineChart({ title: `${fit.method}${isPick ? ' (picked)' : ''}: ${spec.dataset.output.name} against ${inputs[k].name} at ${others}`, xLabel: label(inputs[k]), yLabel, x, y, mark: through[k] }));
+			}
+			continue;
+		}
 		const fit = fitFromJSON(r.fit);
 		const [lo, hi] = fit.domain;
 		const x = Array.from({ length: CHART_SAMPLES + 1 }, (_, i) => (i === CHART_SAMPLES ? hi : lo + ((hi - lo) * i) / CHART_SAMPLES));
@@ -93,7 +116,7 @@ async function studyRecordHtml(db: Knex, study: store.Study, opts: RecordOptions
 	}
 
 	const problem = spec.problem;
-	const question = `${problem.kind} ${spec.dataset.output.name}${problem.target !== undefined ? ` = ${problem.target}` : ''} over ${spec.dataset.input.name} in [${problem.bounds.map((b) => b.map(fmt).join(', ')).join('; ')}]${
+	const question = `${problem.kind} ${spec.dataset.output.name}${problem.target !== undefined ? ` = ${problem.target}` : ''} over ${inputs.map((c, k) => `${c.name} in [${(problem.bounds[k] ?? []).map(fmt).join(', ')}]`).join(', ')}${
 		problem.constraints.length ? `, subject to ${problem.constraints.map((c) => `${c.output} ${c.op} ${c.value}`).join(', ')}` : ''
 	}`;
 	const css = `
@@ -142,7 +165,7 @@ ${card
 ${
 	study.pick && picked
 		? `<dl data-testid="record-pick"><dt>fit</dt><dd>${esc(picked.method)} (${esc(picked.continuity)})</dd><dt>rationale</dt><dd>${esc(study.pick.rationale)}</dd><dt>picked by</dt><dd>${esc(study.pick.by ?? '—')}, ${esc(when(study.pick.at))}</dd>${
-				bestOf(picked.id)?.best ? `<dt>optimum on this fit</dt><dd>${esc(spec.dataset.input.name)} = ${fmt(bestOf(picked.id)!.best!.x[0])}, ${esc(spec.dataset.output.name)} = ${fmt(bestOf(picked.id)!.best!.f)}</dd>` : ''
+				bestOf(picked.id)?.best ? `<dt>optimum on this fit</dt><dd>${inputs.map((c, k) => `${esc(c.name)} = ${fmt(bestOf(picked.id)!.best!.x[k])}`).join(', ')}, ${esc(spec.dataset.output.name)} = ${fmt(bestOf(picked.id)!.best!.f)}</dd>` : ''
 			}</dl>`
 		: '<p>No fit has been picked yet.</p>'
 }

@@ -6,7 +6,7 @@
  */
 import type { Knex } from 'knex';
 import type { Study, StudyFit } from './store';
-import { rankByVerdict, separateOptima, THRESHOLDS, VERDICT_RULE, verdict } from '../../domain/verdict';
+import { rankByVerdict, separateOptima, separateOptimaN, THRESHOLDS, VERDICT_RULE, verdict } from '../../domain/verdict';
 
 type Db = Knex | Knex.Transaction;
 
@@ -62,6 +62,20 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 		if (!bucketsOf.has(k)) bucketsOf.set(k, []);
 		bucketsOf.get(k)!.push({ bucket: Number(b.bucket), n: b.n });
 	}
+	// two or more inputs: optima separated in every input, and the spread of x* per input
+	const bounds = study.spec.problem.bounds;
+	const several = bounds.length > 1;
+	const endsOf = new Map<string, number[][]>();
+	if (several) {
+		const ends = await db.raw(`SELECT fit_id, optimizer, x FROM study_runs WHERE study_id = ? AND outcome = 'converged'`, [study.id]);
+		for (const e of ends.rows) {
+			const k = `${e.fit_id}/${e.optimizer}`;
+			if (!endsOf.has(k)) endsOf.set(k, []);
+			endsOf.get(k)!.push((e.x as unknown[]).map(Number));
+		}
+	}
+	const widths = bounds.map(([l, h]) => Math.max((h - l) * THRESHOLDS.separate, Number.MIN_VALUE));
+	const spreadOf = (xs: number[][]) => bounds.map((_, k) => Math.max(...xs.map((x) => x[k])) - Math.min(...xs.map((x) => x[k])));
 	const bestOf = new Map<string, { id: string; x: number[]; f: number; converged: boolean }>();
 	for (const b of best.rows) bestOf.set(`${b.fit_id}/${b.optimizer}`, b);
 	const fitOf = new Map(fits.map((f) => [f.id, f]));
@@ -96,7 +110,8 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 		// a run that "converges" on a knot where f′ jumps (a derivative-free method at a corner of the
 		// fit), or outside the data (on the extrapolation), is counted as such, not as a success
 		const successRate = runs ? (s.converged_smooth as number) / runs : 0;
-		const optima = converged ? separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width) : null;
+		const ends = endsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [];
+		const optima = !converged ? null : several ? separateOptimaN(ends, bounds.map(([l]) => l), widths) : separateOptima(bucketsOf.get(`${s.fit_id}/${s.optimizer}`) ?? [], lo, width);
 		// the data's range of y (overshoot / overshootRelative) when the audit shows it, else the fit's own range over the bounds
 		const dataRange = fidelity?.overshoot && fidelity.overshootRelative ? fidelity.overshoot / fidelity.overshootRelative : null;
 		const fRange = dataRange ?? (fit?.reference && !fit.reference.error && fit.reference.fRange > 0 ? fit.reference.fRange : null);
@@ -113,7 +128,9 @@ export async function scorecard(db: Db, study: Pick<Study, 'id' | 'spec'>, fits:
 			outcomes: Object.fromEntries(OUTCOMES.map((o) => [o, s[o] as number])) as ScorecardRow['outcomes'],
 			atKink: s.at_kink as number,
 			outsideData: s.outside_data as number,
-			spread: converged ? { x: (num(s.x_hi) ?? 0) - (num(s.x_lo) ?? 0), f: (num(s.f_hi) ?? 0) - (num(s.f_lo) ?? 0) } : null,
+			spread: converged
+				? { x: (num(s.x_hi) ?? 0) - (num(s.x_lo) ?? 0), f: (num(s.f_hi) ?? 0) - (num(s.f_lo) ?? 0), ...(several && ends.length ? { inputs: spreadOf(ends) } : {}) }
+				: null,
 			reference: ref ? { x: ref.x, f: ref.f } : null,
 			gap,
 			reachesReference: reaches,

@@ -4,6 +4,7 @@
  */
 import type { Knex } from 'knex';
 import { getWithData } from '../datasets/store';
+import { surfaceFromJSON } from '../../numerics/fits/surfaceFile';
 import { scorecard } from './scorecard';
 import type { StudyPage } from '../../domain/wire';
 export type { StudyPage } from '../../domain/wire';
@@ -46,6 +47,8 @@ export async function studyJson(db: Db, study: Study) {
 	};
 }
 
+/** Points per input of a fit's map over the bounds (studies over two inputs). */
+const MAP_POINTS = 41;
 /** Most data points the chart gets (a long curve is thinned evenly). */
 const CHART_POINTS = 2000;
 /** Most runs a page carries; beyond this the page shows the scorecard and pages runs through the API. */
@@ -61,19 +64,50 @@ export async function studyPage(db: Db, study: Study): Promise<StudyPage> {
 		scorecard(db, study, fits),
 		finished && study.progress.done <= PAGE_RUNS ? store.runColumns(db, study, fits.map((f) => f.id)) : Promise.resolve(null)
 	]);
+	// studies over two inputs: each fit mapped over the bounds, for the paths-on-the-map view
+	if (study.spec.problem.bounds.length === 2 && study.spec.dataset.shape && study.spec.dataset.shape !== 'curve') {
+		const rows = await db('study_fits').where({ study_id: study.id }).select('id', 'fit');
+		const [[a0, a1], [b0, b1]] = study.spec.problem.bounds;
+		const axis = (lo: number, hi: number) => Array.from({ length: MAP_POINTS }, (_, i) => (i === MAP_POINTS - 1 ? hi : lo + ((hi - lo) * i) / (MAP_POINTS - 1)));
+		const x = axis(a0, a1);
+		const y = axis(b0, b1);
+		for (const r of rows) {
+			const fit = surfaceFromJSON(r.fit);
+			const at = fits.find((f) => f.id === r.id);
+			if (!at) continue;
+			at.map = {
+				x,
+				y,
+				f: y.map((yv) =>
+					x.map((xv) => {
+						try {
+							const v = fit.value([xv, yv]);
+							return Number.isFinite(v) ? v : null;
+						} catch {
+							return null; // outside the data under the refuse rule
+						}
+					})
+				)
+			};
+		}
+	}
 	let data: StudyPage['data'] = null;
 	if (dataset) {
-		const xi = dataset.columns.findIndex((c) => c.role === 'input');
+		const inputIdx = dataset.columns.flatMap((c, j) => (c.role === 'input' ? [j] : []));
+		const xi = inputIdx[0] ?? -1;
 		const yi = dataset.columns.findIndex((c) => c.name === study.output);
 		if (xi >= 0 && yi >= 0) {
 			const step = Math.max(1, Math.ceil(dataset.rowCount / CHART_POINTS));
 			const x: number[] = [];
 			const y: number[] = [];
+			const inputs: number[][] = inputIdx.map(() => []);
 			for (let i = 0; i < dataset.rowCount; i += step) {
 				x.push(dataset.data[xi][i]);
 				y.push(dataset.data[yi][i]);
+				if (inputIdx.length > 1) inputIdx.forEach((j, k) => inputs[k].push(dataset.data[j][i]));
 			}
-			data = { x, y };
+			// tables of several inputs: every input column too (the end-point charts draw the data points in the inputs' plane)
+			data = inputIdx.length > 1 ? { x, y, inputs } : { x, y };
 		}
 	}
 	return {

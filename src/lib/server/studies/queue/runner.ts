@@ -16,7 +16,7 @@ import { monotoneStretches } from '../../../numerics/audit/monotoneStretches';
 import { auditSmoothness } from '../../../numerics/audit/smoothness';
 import { fitFromJSON } from '../../../numerics/fits/fitCurve';
 import type { CurveFit } from '../../../numerics/fits/types';
-import { auditSurfaceSmoothness } from '../../../numerics/audit/surfaceAudit';
+import { auditGridFitFidelity, auditSurfaceSmoothness } from '../../../numerics/audit/surfaceAudit';
 import { surfaceFromJSON } from '../../../numerics/fits/surfaceFile';
 import type { SurfaceFit } from '../../../numerics/fits/surfaceTypes';
 import { TensorGrid } from '../../../numerics/fits/tensorGrid';
@@ -430,6 +430,14 @@ function surfaceAuditSummary(fit: SurfaceFit): { smoothness: unknown; fidelity: 
 				})
 			: { declared: fit.continuity, measured: fit.continuity, perInput: fit.axisContinuity, kinkLines: [], worstLines: [] };
 	const loo = fit.stats.looResiduals;
+	if (fit instanceof TensorGrid) {
+		// grid lines left out one at a time (a grid less one node is no longer a grid)
+		const fidelity = safe(() => {
+			const a = auditGridFitFidelity(fit);
+			return { looRmse: a.count ? a.rms : null, looMax: a.count ? a.max : null, looPoints: a.count, looMethod: 'grid-lines', worstAt: a.worstAt, notes: fit.notes };
+		});
+		return { smoothness, fidelity };
+	}
 	const fidelity = loo ? { looRmse: fit.stats.looRms ?? null, looMax: Math.max(...Array.from(loo, Math.abs)), looMethod: 'rippa', condition: fit.stats.condition ?? null, notes: fit.notes } : { looRmse: null, looMax: null, notes: fit.notes };
 	return { smoothness, fidelity };
 }

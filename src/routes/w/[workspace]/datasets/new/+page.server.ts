@@ -49,7 +49,7 @@ async function checkOrSave(mode: 'check' | 'save', { request, locals, params }: 
 		const bytes = upload.sourceBytes(source);
 		const filename = source.kind === 'file' ? source.filename : null;
 		draftId ??= await drafts.create(db(), { workspaceId: workspace.id, userId: user.id, kind: source.kind, filename, bytes });
-		const report = upload.check(parsed, upload.rolesFor(parsed, fields.roles));
+		const report = upload.check(parsed, upload.rolesFor(parsed, fields.roles), { shape: fields.shape });
 		const name = fields.name ?? upload.defaultName(source);
 
 		if (mode === 'save' && report.ok) {

@@ -26,7 +26,8 @@ export const GET = api<RequestHandler>(async ({ locals, params, url }) => {
 
 /**
  * Create a dataset from a JSON body or a multipart upload (`file`, `name`,
- * `roles`, `sheet`). `?dryRun=1` answers 200 with the validation report and
+ * `roles`, `sheet`); either may say `shape: "scatter"` to take a grid-like
+ * table (one with missing cells) as scattered points. `?dryRun=1` answers 200 with the validation report and
  * stores nothing.
  */
 export const POST = api<RequestHandler>(async ({ locals, params, request, url }) => {
@@ -47,6 +48,7 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 		let description: string | undefined;
 		let parsed: ParsedTable;
 		let roles: Record<string, 'input' | 'output'> | undefined;
+		let shape: 'scatter' | undefined;
 		let bytes: Uint8Array;
 		let filename: string | null = null;
 		if (type.startsWith('multipart/form-data')) {
@@ -61,6 +63,7 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 			name = fields.name ?? upload.defaultName(source);
 			description = fields.description;
 			roles = fields.roles;
+			shape = fields.shape;
 			bytes = source.bytes;
 			filename = source.filename;
 		} else if (type.startsWith('application/json')) {
@@ -78,12 +81,15 @@ export const POST = api<RequestHandler>(async ({ locals, params, request, url })
 				fail4xx(422, 'description must be text of at most 2000 characters', 'invalid', [{ field: 'description', problem: 'must be text of at most 2000 characters' }]);
 			}
 			description = d;
+			const chosen = upload.SHAPE_CHOICE.safeParse((body as { shape?: unknown }).shape);
+			if (!chosen.success) fail4xx(422, `shape: ${chosen.error.issues[0].message}`, 'invalid', [{ field: 'shape', problem: chosen.error.issues[0].message }]);
+			shape = chosen.data;
 		} else {
 			fail4xx(400, 'send the table as multipart/form-data (field "file") or as application/json { name, columns, rows }', 'unsupported-content-type');
 		}
 
 		lap('parse');
-		const report = upload.check(parsed, roles);
+		const report = upload.check(parsed, roles, { shape });
 		lap('validate');
 		if (dryRun) {
 			const version = (await datasetStore.latestVersion(db(), workspace.id, name)) + 1;
