@@ -17,12 +17,12 @@
  * PostgreSQL and the built app (building it when the sources are newer).
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
+import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { DEMO_EMAIL, DEMO_PASSWORD, DEMO_WORKSPACE } from '../../seeds/01_demo_accounts';
+import { benchCluster, benchCurve, freePort } from './benchDb';
 
 const DEMO = { email: DEMO_EMAIL, password: DEMO_PASSWORD };
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
@@ -31,17 +31,6 @@ process.chdir(root);
 const TARGET_FPS = 50;
 const PAGE_BYTES_LIMIT = 1024 * 1024;
 const PAGE_MS_LIMIT = 200;
-
-function freePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const srv = createServer();
-		srv.once('error', reject);
-		srv.listen(0, '127.0.0.1', () => {
-			const { port } = srv.address() as { port: number };
-			srv.close(() => resolve(port));
-		});
-	});
-}
 
 function newest(p: string): number {
 	const s = statSync(p);
@@ -56,15 +45,8 @@ function run(cmd: string, args: string[], env: Record<string, string> = {}) {
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 
-const clusterScript = new URL('../../scripts/postgres.mjs', import.meta.url).href;
-const { startCluster } = (await import(clusterScript)) as {
-	startCluster: (o: { dataDir: string; port: number; log?: (m: string) => void }) => { createDatabase(db: string): string; stop(): void };
-};
-const dataDir = mkdtempSync(path.join(os.tmpdir(), 'kinkless-bench-pg-'));
-rmSync(dataDir, { recursive: true });
-const cluster = startCluster({ dataDir, port: await freePort(), log: () => {} });
-const databaseUrl = cluster.createDatabase('kinkless_bench');
-process.env.DATABASE_URL = databaseUrl;
+const cluster = await benchCluster();
+const { databaseUrl } = cluster;
 
 let server: ChildProcess | null = null;
 let exitCode = 0;
@@ -78,7 +60,6 @@ try {
 	const { default: knex } = await import('knex');
 	const { default: pg } = await import('pg');
 	const { default: config } = await import('../../knexfile');
-	const datasetStore = await import('../../src/lib/server/datasets/store');
 	const { launchStudy } = await import('../../src/lib/server/studies/launch');
 	const { runStudyJob } = await import('../../src/lib/server/studies/queue/runner');
 	const { studyInputSchema } = await import('../../src/lib/server/studies/launchRequest');
@@ -87,28 +68,7 @@ try {
 	const ws = await db('workspaces').where({ slug: DEMO_WORKSPACE }).first('id', 'slug');
 	const user = await db('users').where({ email: DEMO.email }).first('id');
 	if (!ws || !user) throw new Error('the demo workspace or user is missing after seeding');
-	const n = 200;
-	const x = Array.from({ length: n }, (_, i) => 0.1 + (1.4 * i) / (n - 1));
-	const y = x.map((j) => 0.86 - 1.2 * (j - 0.9) ** 2 + 0.3 * (j - 0.9) ** 3 + 0.002 * Math.sin(37 * j));
-	const ds = await datasetStore.create(db, {
-		workspaceId: ws.id,
-		name: 'Bench curve, 200 points (invented)',
-		shape: 'curve',
-		shapeReason: 'one input',
-		columns: [
-			{ name: 'J', unit: '-', role: 'input' },
-			{ name: 'eta', unit: '-', role: 'output' }
-		],
-		data: [x, y],
-		rowCount: n,
-		sourceFormat: 'json',
-		sourceFilename: null,
-		sourceBytes: null,
-		sourceSha256: 'bench',
-		notes: [],
-		warnings: [],
-		createdBy: user.id
-	});
+	const ds = { id: await benchCurve(db, ws.id, user.id, 'Bench curve, 200 points (invented)') };
 	const fits = ['linear', 'akima', 'pchip', 'cubic-natural', 'softened-linear', 'smoothing-spline'].map((method) => ({ method }));
 	const input = studyInputSchema.parse({
 		name: 'Bench: 1,800 runs',
@@ -283,6 +243,5 @@ try {
 		clearTimeout(timer);
 	}
 	cluster.stop();
-	rmSync(dataDir, { recursive: true, force: true });
 }
 process.exit(exitCode);

@@ -9,40 +9,20 @@
  * INVENTED (a smooth efficiency-like hump with a little ripple), not measured
  * data.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { benchCluster, benchCurve } from './benchDb';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 process.chdir(root);
-
-function freePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const srv = createServer();
-		srv.once('error', reject);
-		srv.listen(0, '127.0.0.1', () => {
-			const { port } = srv.address() as { port: number };
-			srv.close(() => resolve(port));
-		});
-	});
-}
 
 const TARGET_RUNS_PER_SECOND = 500;
 const PAGE_BYTES_LIMIT = 2 * 1024 * 1024;
 const PAGE_MS_LIMIT = 300;
 
-// a computed specifier: the plain-JS cluster script is loaded at run time, not type-checked here
-const clusterScript = new URL('../../scripts/postgres.mjs', import.meta.url).href;
-const { startCluster } = (await import(clusterScript)) as {
-	startCluster: (o: { dataDir: string; port: number; log?: (m: string) => void }) => { createDatabase(db: string): string; stop(): void };
-};
-const dataDir = mkdtempSync(path.join(os.tmpdir(), 'kinkless-bench-pg-'));
-rmSync(dataDir, { recursive: true });
-const cluster = startCluster({ dataDir, port: await freePort(), log: () => {} });
-const databaseUrl = cluster.createDatabase('kinkless_bench');
-process.env.DATABASE_URL = databaseUrl;
+const cluster = await benchCluster();
+const { databaseUrl } = cluster;
 
 let exitCode = 0;
 try {
@@ -50,7 +30,6 @@ try {
 	const { default: knex } = await import('knex');
 	const { default: pg } = await import('pg');
 	const { default: config } = await import('../../knexfile');
-	const datasetStore = await import('../../src/lib/server/datasets/store');
 	const { launchStudy } = await import('../../src/lib/server/studies/launch');
 	const { StudyWorkers, defaultThreads } = await import('../../src/lib/server/studies/queue/workers');
 	const { studyInputSchema } = await import('../../src/lib/server/studies/launchRequest');
@@ -64,28 +43,7 @@ try {
 	await db('users').insert({ id: 'bench-user', email: 'bench@bench.example', name: 'Bench', password_hash: 'x' });
 	const [ws] = await db('workspaces').insert({ slug: 'bench', name: 'Bench', created_by: 'bench-user' }).returning('id');
 
-	const n = 200;
-	const x = Array.from({ length: n }, (_, i) => 0.1 + (1.4 * i) / (n - 1));
-	const y = x.map((j) => 0.86 - 1.2 * (j - 0.9) ** 2 + 0.3 * (j - 0.9) ** 3 + 0.002 * Math.sin(37 * j));
-	const ds = await datasetStore.create(db, {
-		workspaceId: ws.id,
-		name: 'Bench curve (invented)',
-		shape: 'curve',
-		shapeReason: 'one input',
-		columns: [
-			{ name: 'J', unit: '-', role: 'input' },
-			{ name: 'eta', unit: '-', role: 'output' }
-		],
-		data: [x, y],
-		rowCount: n,
-		sourceFormat: 'json',
-		sourceFilename: null,
-		sourceBytes: null,
-		sourceSha256: 'bench',
-		notes: [],
-		warnings: [],
-		createdBy: 'bench-user'
-	});
+	const ds = { id: await benchCurve(db, ws.id, 'bench-user', 'Bench curve (invented)') };
 
 	const threads = Math.max(1, defaultThreads());
 	const t0 = performance.now();
@@ -94,8 +52,10 @@ try {
 		`study bench: ${threads} worker thread${threads === 1 ? '' : 's'} ready in ${(performance.now() - t0).toFixed(0)} ms (${os.cpus().length} cores; load average ${os.loadavg()[0].toFixed(1)} — other work on the machine slows this down)`
 	);
 
-	const fits = ['linear', 'cubic-natural', 'cubic-not-a-knot', 'akima', 'akima-modified', 'pchip', 'local-quadratic', 'local-cubic', 'polynomial-global', 'polynomial-least-squares', 'smoothing-spline', 'softened-linear'].map((method) =>
-		method === 'polynomial-least-squares' ? { method, options: { degree: 5 } } : { method }
+	// every curve method that takes 200 points (a global interpolating polynomial is refused past 40 points;
+	// the clamped spline stands in for it, with level end slopes)
+	const fits = ['linear', 'cubic-natural', 'cubic-not-a-knot', 'akima', 'akima-modified', 'pchip', 'local-quadratic', 'local-cubic', 'cubic-clamped', 'polynomial-least-squares', 'smoothing-spline', 'softened-linear'].map((method) =>
+		method === 'polynomial-least-squares' ? { method, options: { degree: 5 } } : method === 'cubic-clamped' ? { method, options: { slopes: [0, 0] } } : { method }
 	);
 	const input = studyInputSchema.parse({
 		datasetId: ds.id,
@@ -163,6 +123,5 @@ try {
 	exitCode = 1;
 } finally {
 	cluster.stop();
-	rmSync(dataDir, { recursive: true, force: true });
 }
 process.exit(exitCode);
