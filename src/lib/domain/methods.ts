@@ -5,6 +5,7 @@
  * registry, the fit preview, the study form, pages and the scorecard read them from. Plain TypeScript, relative imports only.
  */
 import type { Continuity, CurveMethod } from '../numerics/fits/types';
+import type { SurfaceMethod } from '../numerics/fits/surfaceTypes';
 import type { OptimizerName } from '../numerics/optimize/types';
 
 interface MethodEntry {
@@ -88,6 +89,26 @@ export const CURVE_METHOD_CATALOGUE: Readonly<Record<CurveMethod, CurveMethodEnt
 	}
 };
 
+export interface SurfaceMethodEntry extends MethodEntry {
+	/** a full grid (tensor product) or scattered points */
+	kind: 'grid' | 'scatter';
+	/** the class the method guarantees (along every input) */
+	continuity: Continuity;
+	/** grid methods: fewest values along each input */
+	minPoints: number;
+}
+
+export const SURFACE_METHOD_CATALOGUE: Readonly<Record<SurfaceMethod, SurfaceMethodEntry>> = {
+	'grid-linear': { label: 'Multilinear', note: 'linear along each input between grid lines; slopes jump on every grid line', kind: 'grid', continuity: 'C0', minPoints: 2 },
+	'grid-pchip': { label: 'PCHIP per input', note: 'monotone cubic slopes along each input, tensor Hermite cells', kind: 'grid', continuity: 'C1', minPoints: 2 },
+	'grid-akima': { label: 'Akima per input', note: 'Akima slopes along each input, tensor Hermite cells', kind: 'grid', continuity: 'C1', minPoints: 3 },
+	'grid-cubic-natural': { label: 'Natural cubic spline per input', note: 'tensor-product cubic spline, zero curvature at the ends of each input', kind: 'grid', continuity: 'C2', minPoints: 2 },
+	'grid-cubic-not-a-knot': { label: 'Not-a-knot cubic spline per input', note: 'tensor-product cubic spline; exact for products of cubics', kind: 'grid', continuity: 'C2', minPoints: 2 },
+	'rbf-thin-plate': { label: 'Thin-plate radial basis', note: 'thin-plate spline over scattered points with a linear tail', kind: 'scatter', continuity: 'C1', minPoints: 1 },
+	'rbf-multiquadric': { label: 'Multiquadric radial basis', note: 'multiquadric basis over scattered points with a linear tail', kind: 'scatter', continuity: 'Cinf', minPoints: 1 },
+	'rbf-gaussian': { label: 'Gaussian radial basis', note: 'Gaussian basis over scattered points with a linear tail', kind: 'scatter', continuity: 'Cinf', minPoints: 1 }
+};
+
 export const OPTIMIZER_CATALOGUE: Readonly<Record<OptimizerName, MethodEntry>> = {
 	sqp: { label: 'SQP', note: 'SQP: bounds and constraints, quasi-Newton Hessian' },
 	bfgs: { label: 'BFGS', note: 'BFGS with a Wolfe line search; bounds by projection' },
@@ -99,8 +120,9 @@ export const OPTIMIZER_CATALOGUE: Readonly<Record<OptimizerName, MethodEntry>> =
 
 const has = (o: object, k: string) => Object.prototype.hasOwnProperty.call(o, k);
 
-/** a curve method's human label; an unknown id is shown as it is */
-export const methodLabel = (id: string): string => (has(CURVE_METHOD_CATALOGUE, id) ? CURVE_METHOD_CATALOGUE[id as CurveMethod].label : id);
+/** a curve or surface method's human label; an unknown id is shown as it is */
+export const methodLabel = (id: string): string =>
+	has(CURVE_METHOD_CATALOGUE, id) ? CURVE_METHOD_CATALOGUE[id as CurveMethod].label : has(SURFACE_METHOD_CATALOGUE, id) ? SURFACE_METHOD_CATALOGUE[id as SurfaceMethod].label : id;
 
 /** a continuity class as people write it (C∞, not Cinf) */
 export const continuityText = (c: Continuity | string | null | undefined): string => (c === 'Cinf' ? 'C∞' : (c ?? '—'));

@@ -10,6 +10,7 @@ import { prepareGrid } from './prepareGrid';
 import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './tensorGrid';
 import type { GridMethod, SurfaceFitOptions } from './surfaceTypes';
 import type { Continuity } from './types';
+import { SURFACE_METHOD_CATALOGUE } from '../../domain/methods';
 
 export type GridBuilder = (axes: readonly ArrayLike<number>[], values: ArrayLike<number>, options?: SurfaceFitOptions) => TensorGrid;
 
@@ -49,7 +50,8 @@ function resolve(options: SurfaceFitOptions | undefined, label: string): Surface
 	return { extrapolation: ext };
 }
 
-function cubicBuilder(method: GridMethod, continuity: Continuity, minPoints: number, rule: () => LineSlopeRule): GridBuilder {
+function cubicBuilder(method: GridMethod, rule: () => LineSlopeRule): GridBuilder {
+	const { continuity, minPoints } = SURFACE_METHOD_CATALOGUE[method];
 	return (axesIn, valuesIn, options) => {
 		const opts = resolve(options, method);
 		const g = prepareGrid(axesIn, valuesIn, method, minPoints);
@@ -64,25 +66,36 @@ function cubicBuilder(method: GridMethod, continuity: Continuity, minPoints: num
 /** Multilinear interpolation: C0, exact for functions linear in each input separately. */
 export const gridLinear: GridBuilder = (axesIn, valuesIn, options) => {
 	const opts = resolve(options, 'grid-linear');
-	const g = prepareGrid(axesIn, valuesIn, 'grid-linear', 2);
-	return new TensorGrid({ method: 'grid-linear', continuity: 'C0', axes: g.axes, data: g.values, cubic: false, options: opts, notes: g.notes });
+	const { continuity, minPoints } = SURFACE_METHOD_CATALOGUE['grid-linear'];
+	const g = prepareGrid(axesIn, valuesIn, 'grid-linear', minPoints);
+	return new TensorGrid({ method: 'grid-linear', continuity, axes: g.axes, data: g.values, cubic: false, options: opts, notes: g.notes });
 };
 /** Tensor-product natural cubic spline (C2). */
-export const gridCubicNatural = cubicBuilder('grid-cubic-natural', 'C2', 2, () => splineRule('natural'));
+export const gridCubicNatural = cubicBuilder('grid-cubic-natural', () => splineRule('natural'));
 /** Tensor-product not-a-knot cubic spline (C2; exact for products of cubics). */
-export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', 'C2', 2, () => splineRule('not-a-knot'));
+export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', () => splineRule('not-a-knot'));
 /** Akima's slopes along each input, tensor Hermite cells (C1). */
-export const gridAkima = cubicBuilder('grid-akima', 'C1', 3, akimaRule);
+export const gridAkima = cubicBuilder('grid-akima', akimaRule);
 /** PCHIP slopes along each input, tensor Hermite cells (C1). */
-export const gridPchip = cubicBuilder('grid-pchip', 'C1', 2, () => pchipRule);
+export const gridPchip = cubicBuilder('grid-pchip', () => pchipRule);
 
-export const gridMethods: Readonly<Record<GridMethod, GridMethodInfo>> = Object.freeze({
-	'grid-linear': { build: gridLinear, continuity: 'C0', minPoints: 2 },
-	'grid-cubic-natural': { build: gridCubicNatural, continuity: 'C2', minPoints: 2 },
-	'grid-cubic-not-a-knot': { build: gridCubicNotAKnot, continuity: 'C2', minPoints: 2 },
-	'grid-akima': { build: gridAkima, continuity: 'C1', minPoints: 3 },
-	'grid-pchip': { build: gridPchip, continuity: 'C1', minPoints: 2 }
-});
+const GRID_BUILDERS: Readonly<Record<GridMethod, GridBuilder>> = {
+	'grid-linear': gridLinear,
+	'grid-cubic-natural': gridCubicNatural,
+	'grid-cubic-not-a-knot': gridCubicNotAKnot,
+	'grid-akima': gridAkima,
+	'grid-pchip': gridPchip
+};
+
+/** Each grid method's builder with its stated continuity and fewest values per input (from the catalogue). */
+export const gridMethods: Readonly<Record<GridMethod, GridMethodInfo>> = Object.freeze(
+	Object.fromEntries(
+		(Object.keys(GRID_BUILDERS) as GridMethod[]).map((m) => {
+			const { continuity, minPoints } = SURFACE_METHOD_CATALOGUE[m];
+			return [m, { build: GRID_BUILDERS[m], continuity, minPoints }];
+		})
+	) as Record<GridMethod, GridMethodInfo>
+);
 
 export function isGridMethod(method: unknown): method is GridMethod {
 	return typeof method === 'string' && Object.prototype.hasOwnProperty.call(gridMethods, method);

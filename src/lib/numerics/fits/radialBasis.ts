@@ -25,6 +25,7 @@ import { FitError } from './fitError';
 import { decodeArray, decodeNumber, encodeArray, encodeNumber, fitFileEnvelope } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
 import type { Continuity } from './types';
+import { SURFACE_METHOD_CATALOGUE } from '../../domain/methods';
 
 export const RBF_MAX_INPUTS = 6;
 /** condition number above which a warning note is added (common practice, no source: ~1/√machine-ε) */
@@ -240,7 +241,7 @@ export class RadialBasis implements SurfaceFit {
 		}
 		if (this.kind === 'thin-plate') notes.push('thin-plate: C1 at the data points, where the Hessian is not defined (that point’s curvature term is left out)');
 		this.stats = Object.freeze(loo ? { condition, looResiduals: loo, looRms: Math.sqrt(ss / n) } : { condition });
-		this.continuity = this.kind === 'thin-plate' ? 'C1' : 'Cinf';
+		this.continuity = SURFACE_METHOD_CATALOGUE[this.method].continuity;
 		this.axisContinuity = Object.freeze(new Array<Continuity>(d).fill(this.continuity));
 		this.hessian = this.kind === 'thin-plate' ? 'piecewise' : 'exact';
 		this.notes = Object.freeze(notes);
@@ -403,7 +404,7 @@ export class RadialBasis implements SurfaceFit {
 		const st = (o.stats ?? {}) as Record<string, unknown>;
 		const condition = st.condition === undefined ? NaN : decodeNumber(st.condition, 'stats.condition');
 		const kind = KERNEL[method];
-		const continuity: Continuity = kind === 'thin-plate' ? 'C1' : 'Cinf';
+		const continuity: Continuity = SURFACE_METHOD_CATALOGUE[method].continuity;
 		// why Object.create: the constructor solves for the coefficients; here they are given
 		const fit = Object.create(RadialBasis.prototype) as RadialBasis;
 		const hi = Array.from(lo, (l, k) => l + span[k]);
