@@ -3,37 +3,15 @@
 // one that lies about them is read as a stream on an offload thread and stopped
 // at the row limit as it is reached; CSV is read off the
 // request thread too. /api/health answers throughout. Real server, real PostgreSQL.
-import ExcelJS from 'exceljs';
-import JSZip from 'jszip';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { healthDuring, json, testDb } from './client';
 import { countDatasets, team, upload, type ErrorBody } from './datasetHelpers';
+import { handWrittenSheet } from '../unit/datasets/helpers';
 
 afterAll(async () => {
 	await testDb().destroy();
 });
 
-/** A valid one-sheet workbook whose sheet XML is replaced by `rows` identical rows of two numbers. */
-async function bombWorkbook(rows: number, { lieAboutSize = false, addressed = false } = {}): Promise<Uint8Array> {
-	const wb = new ExcelJS.Workbook();
-	wb.addWorksheet('Sweep').addRow(['x', 'y']);
-	const zip = await JSZip.loadAsync(await wb.xlsx.writeBuffer());
-	const body: string[] = ['<?xml version="1.0" encoding="UTF-8" standalone="yes"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'];
-	body.push('<row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>');
-	// identical rows (OOXML allows rows and cells without addresses): they compress about 1,000 to 1
-	const row = '<row><c><v>1.5</v></c><c><v>2.5</v></c></row>';
-	if (addressed) for (let i = 2; i <= rows + 1; i++) body.push(`<row r="${i}"><c r="A${i}"><v>${i}</v></c><c r="B${i}"><v>2.5</v></c></row>`);
-	else body.push(row.repeat(rows));
-	body.push('</sheetData></worksheet>');
-	zip.file('xl/worksheets/sheet1.xml', body.join(''));
-	const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 9 } });
-	if (lieAboutSize) {
-		// rewrite every declared expanded size in the central directory to 1 KB
-		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-		for (let i = 0; i + 46 < bytes.byteLength; i++) if (view.getUint32(i, true) === 0x02014b50) view.setUint32(i + 24, 1024, true);
-	}
-	return bytes;
-}
 
 let t: Awaited<ReturnType<typeof team>>;
 beforeAll(async () => {
@@ -42,7 +20,7 @@ beforeAll(async () => {
 
 describe('upload limits hold before the work is done', () => {
 	it('a small workbook that expands to over 100 MB of sheet XML is refused at once with 413 naming the limit', async () => {
-		const bytes = await bombWorkbook(3_000_000);
+		const bytes = await handWrittenSheet(3_000_000, { addressed: false });
 		expect(bytes.byteLength).toBeLessThan(20 * 1024 * 1024);
 		const before = await countDatasets(t.ws.id);
 		const t0 = performance.now();
@@ -63,7 +41,7 @@ describe('upload limits hold before the work is done', () => {
 
 	it('a workbook whose directory lies about its sizes is read as a stream and stopped at the row limit, off the request thread', async () => {
 		// 1,100,000 addressed rows (11 MB on disk), every part declared as 1 KB
-		const bytes = await bombWorkbook(1_100_000, { lieAboutSize: true, addressed: true });
+		const bytes = await handWrittenSheet(1_100_000, { lie: true });
 		expect(bytes.byteLength).toBeLessThan(20 * 1024 * 1024);
 		const before = await countDatasets(t.ws.id);
 		const { result: r, latencies } = await healthDuring(upload(t.owner, t.ws.slug, bytes, 'liar.xlsx'));

@@ -1,4 +1,5 @@
 import ExcelJS from 'exceljs';
+import JSZip from 'jszip';
 import { expect } from 'vitest';
 import { DatasetError } from '../../../src/lib/server/datasets/datasetError';
 import { parseTable } from '../../../src/lib/server/datasets/parseTable';
@@ -42,4 +43,26 @@ export function pseudoRandomBytes(n: number, seed: number, map: (b: number) => n
 		out[i] = map(s >>> 24);
 	}
 	return out;
+}
+
+/**
+ * A one-sheet workbook whose sheet XML is written by hand: a header row x, y and
+ * `rows` numeric rows (with cell addresses unless `addressed` is false), with extra
+ * cells from `extra`. `lie` rewrites every size its ZIP directory declares to 1 KB.
+ */
+export async function handWrittenSheet(rows: number, { addressed = true, lie = false, extra = '' } = {}): Promise<Uint8Array> {
+	const zip = await JSZip.loadAsync(await workbookBytes((wb) => wb.addWorksheet('Sweep').addRow(['x', 'y'])));
+	const body: string[] = ['<?xml version="1.0" encoding="UTF-8" standalone="yes"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'];
+	body.push('<row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>');
+	// rows without addresses are identical (OOXML allows that): they compress about 1,000 to 1
+	if (addressed) for (let i = 2; i <= rows + 1; i++) body.push(`<row r="${i}"><c r="A${i}"><v>${i}</v></c><c r="B${i}"><v>2.5</v></c></row>`);
+	else body.push('<row><c><v>1.5</v></c><c><v>2.5</v></c></row>'.repeat(rows));
+	body.push(extra, '</sheetData></worksheet>');
+	zip.file('xl/worksheets/sheet1.xml', body.join(''));
+	const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 9 } });
+	if (lie) {
+		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+		for (let i = 0; i + 46 < bytes.byteLength; i++) if (view.getUint32(i, true) === 0x02014b50) view.setUint32(i + 24, 1024, true);
+	}
+	return bytes;
 }

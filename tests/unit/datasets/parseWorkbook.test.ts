@@ -1,9 +1,8 @@
-import JSZip from 'jszip';
 import { describe, expect, test } from 'vitest';
 import { columnLetter } from '../../../src/lib/server/datasets/parseWorkbook';
 import { parseTable } from '../../../src/lib/server/datasets/parseTable';
 import { validateTable } from '../../../src/lib/server/datasets/validateTable';
-import { expectDatasetError, workbookBytes } from './helpers';
+import { expectDatasetError, handWrittenSheet, workbookBytes } from './helpers';
 
 /** A workbook with a notes sheet holding nothing, then two sheets of data. */
 function severalSheets() {
@@ -152,25 +151,6 @@ describe('parseTable: XLSX', () => {
 	});
 });
 
-/**
- * A one-sheet workbook whose sheet XML is written by hand: a header row x, y and
- * `rows` numeric rows (with cell addresses unless `addressed` is false), with extra
- * cells from `extra`. `lie` rewrites every size its ZIP directory declares to 1 KB.
- */
-async function handWrittenSheet(rows: number, { addressed = true, lie = false, extra = '' } = {}): Promise<Uint8Array> {
-	const zip = await JSZip.loadAsync(await workbookBytes((wb) => wb.addWorksheet('Sweep').addRow(['x', 'y'])));
-	const body: string[] = ['<?xml version="1.0" encoding="UTF-8" standalone="yes"?><worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>'];
-	body.push('<row r="1"><c r="A1" t="inlineStr"><is><t>x</t></is></c><c r="B1" t="inlineStr"><is><t>y</t></is></c></row>');
-	for (let i = 2; i <= rows + 1; i++) body.push(addressed ? `<row r="${i}"><c r="A${i}"><v>${i}</v></c><c r="B${i}"><v>2.5</v></c></row>` : '<row><c><v>1.5</v></c><c><v>2.5</v></c></row>');
-	body.push(extra, '</sheetData></worksheet>');
-	zip.file('xl/worksheets/sheet1.xml', body.join(''));
-	const bytes = await zip.generateAsync({ type: 'uint8array', compression: 'DEFLATE', compressionOptions: { level: 9 } });
-	if (lie) {
-		const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-		for (let i = 0; i + 46 < bytes.byteLength; i++) if (view.getUint32(i, true) === 0x02014b50) view.setUint32(i + 24, 1024, true);
-	}
-	return bytes;
-}
 
 describe('parseTable: XLSX read as a stream, stopping at the limits', () => {
 	test('a workbook that lies about its sizes is stopped at the row limit as it is reached', async () => {
