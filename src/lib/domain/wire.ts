@@ -78,9 +78,9 @@ export interface RunColumns {
 
 /** A run's whole path (`GET /api/v1/runs/:id/path`): one entry per iterate; NaN is sent as null. */
 export interface PathJson {
-	x: number[][];
+	x: (number | null)[][];
 	f: (number | null)[];
-	grad: number[][];
+	grad: (number | null)[][];
 	step: (number | null)[];
 	violation: (number | null)[];
 }

@@ -6,29 +6,13 @@
  * the fits' order (the same problem over every fit). Overlay: any chosen runs
  * on one chart.
  */
+import type { PathJson, RunRow } from '../domain/wire';
 
-/** The fields of a run the replay needs (a RunView has them all). */
-export interface ReplayRun {
-	id: string;
-	fitId: string;
-	optimizerIndex: number;
-	startIndex: number;
-	start: number[];
-	outcome: string;
-	atKink: boolean;
-	iterations: number;
-	x: number[];
-	f: number | null;
-}
+/** The fields of a run the replay needs. */
+export type ReplayRun = Pick<RunRow, 'id' | 'fitId' | 'optimizerIndex' | 'startIndex' | 'start' | 'outcome' | 'atKink' | 'iterations' | 'x' | 'f'>;
 
 /** A path as the API sends it (non-finite numbers are null). */
-export interface ReplayPath {
-	x: (number | null)[][];
-	f: (number | null)[];
-	grad: (number | null)[][];
-	step: (number | null)[];
-	violation: (number | null)[];
-}
+export type ReplayPath = PathJson;
 
 /** What a scorecard row or a runs-table row asks the replay to open. */
 export interface ReplayRequest {

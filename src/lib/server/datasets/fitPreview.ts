@@ -70,16 +70,23 @@ const FIELD_OF: Partial<Record<FitErrorCode, string>> = {
 	singular: 'options.degree'
 };
 
-/** The data and settings of a preview request, checked. Throws 422 naming the field at fault. */
-function previewInput(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
+/** The column of output `name`; a 422 naming the dataset's outputs when it has none of that name. */
+export function outputColumn(dataset: DatasetMeta, name: string): number {
 	const { columns } = dataset;
-	const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
-	const j = columns.findIndex((c) => c.name === request.output && c.role === 'output');
+	const j = columns.findIndex((c) => c.name === name && c.role === 'output');
 	if (j === -1) {
-		fail4xx(422, `output: the dataset has no output column "${request.output}"; its outputs are ${outputs.map((o) => `"${o}"`).join(', ')}`, 'invalid', [
+		const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
+		fail4xx(422, `output: the dataset has no output column "${name}"; its outputs are ${outputs.map((o) => `"${o}"`).join(', ')}`, 'invalid', [
 			{ field: 'output', problem: `not an output of this dataset (outputs: ${outputs.join(', ')})` }
 		]);
 	}
+	return j;
+}
+
+/** The data and settings of a preview request, checked. Throws 422 naming the field at fault. */
+function previewInput(dataset: DatasetMeta & { data: Float64Array[] }, request: FitPreviewRequest) {
+	const { columns } = dataset;
+	const j = outputColumn(dataset, request.output);
 	if (dataset.shape !== 'curve') {
 		fail4xx(422, `the fit preview covers curves (one input); this dataset is a ${dataset.shape}`, 'not-a-curve', [
 			{ field: 'output', problem: `dataset shape is ${dataset.shape}` }
@@ -103,7 +110,8 @@ function fitProblem(problem: FitProblem): never {
 	fail4xx(422, `${field}: ${problem.message}`, 'fit-failed', [{ field, problem: problem.message }]);
 }
 
-async function onThread<T>(task: FitTask, rows: number, method: string): Promise<T> {
+/** A preview's work on an offload thread within PREVIEW_BUDGET_MS; over budget or busy, the 4xx that says so. */
+export async function onThread<T>(task: FitTask, rows: number, method: string): Promise<T> {
 	try {
 		return await runOffThread<T>(task, PREVIEW_BUDGET_MS);
 	} catch (e) {

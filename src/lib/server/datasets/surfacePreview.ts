@@ -3,17 +3,18 @@
 // (../offload/surfacePreview.ts). Bad requests are 422s naming the field.
 import { z } from 'zod';
 import type { FitErrorCode } from '../../numerics/fits';
-import { gridMethods } from '../../numerics/fits/fitGrid';
+import type { SurfaceMethod } from '../../numerics/fits/surfaceTypes';
+import { SURFACE_METHOD_CATALOGUE } from '../../domain/methods';
 import { fail4xx } from '../api';
-import { formatBudget, PREVIEW_BUDGET_MS } from '../offload/limits';
-import { OffloadBusy, OffloadOverBudget, runOffThread } from '../offload/pool';
+import { onThread, outputColumn } from './fitPreview';
 import type { FitProblem } from '../offload/fitWork';
 import type { SurfacePreview, SurfacePreviewResult } from '../offload/surfacePreview';
 import type { DatasetMeta } from './store';
 
 export type { SurfacePreview } from '../offload/surfacePreview';
 
-const SURFACE_METHODS: [string, ...string[]] = [...(Object.keys(gridMethods) as [string, ...string[]]), 'rbf-thin-plate', 'rbf-multiquadric', 'rbf-gaussian'];
+const SURFACE_METHODS = Object.keys(SURFACE_METHOD_CATALOGUE) as [SurfaceMethod, ...SurfaceMethod[]];
+const isScatter = (m: SurfaceMethod) => SURFACE_METHOD_CATALOGUE[m].kind === 'scatter';
 export const MAP_RESOLUTION = { min: 5, max: 81, default: 41 } as const;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
@@ -58,7 +59,7 @@ export const surfacePreviewSchema = z
 				: 'the body must be a JSON object'
 	})
 	.superRefine((body, ctx) => {
-		const rbf = body.method.startsWith('rbf-');
+		const rbf = isScatter(body.method);
 		for (const key of RBF_ONLY) {
 			if (body.options?.[key] !== undefined && !rbf) ctx.addIssue({ code: 'custom', path: ['options', key], message: `${key} applies to rbf-* methods, not ${body.method}` });
 		}
@@ -71,16 +72,10 @@ const FIELD_OF: Partial<Record<FitErrorCode, string>> = { 'bad-option': 'options
 /** Fit, map, slice and audit one output of a grid or scatter dataset on an offload thread. Throws 422 naming the field or limit at fault. */
 export async function surfacePreview(dataset: DatasetMeta & { data: Float64Array[] }, request: SurfacePreviewRequest): Promise<SurfacePreview> {
 	const { columns } = dataset;
-	const outputs = columns.filter((c) => c.role === 'output').map((c) => c.name);
 	const inputIdx = columns.flatMap((c, j) => (c.role === 'input' ? [j] : []));
 	const names = inputIdx.map((j) => columns[j].name);
-	const j = columns.findIndex((c) => c.name === request.output && c.role === 'output');
-	if (j === -1) {
-		fail4xx(422, `output: the dataset has no output column "${request.output}"; its outputs are ${outputs.map((o) => `"${o}"`).join(', ')}`, 'invalid', [
-			{ field: 'output', problem: `not an output of this dataset (outputs: ${outputs.join(', ')})` }
-		]);
-	}
-	if (request.method.startsWith('grid-') && dataset.shape !== 'grid') {
+	const j = outputColumn(dataset, request.output);
+	if (!isScatter(request.method) && dataset.shape !== 'grid') {
 		fail4xx(422, `method: ${request.method} needs the inputs on a full grid; this dataset is scattered (${dataset.shapeReason}): use an rbf-* method`, 'invalid', [{ field: 'method', problem: 'needs a grid dataset' }]);
 	}
 	if (request.through && request.through.length !== names.length) {
@@ -98,21 +93,11 @@ export async function surfacePreview(dataset: DatasetMeta & { data: Float64Array
 		map = [at[0], at[1]];
 	}
 	const options = { ...(request.options ?? {}) };
-	let result: SurfacePreviewResult;
-	try {
-		result = await runOffThread<SurfacePreviewResult>(
-			{ kind: 'surface-preview', inputs: inputIdx.map((i) => dataset.data[i]), y: dataset.data[j], method: request.method as never, options, through: request.through ?? null, map, resolution: request.resolution ?? MAP_RESOLUTION.default },
-			PREVIEW_BUDGET_MS
-		);
-	} catch (e) {
-		if (e instanceof OffloadOverBudget) {
-			fail4xx(422, `the ${request.method} preview of ${dataset.rowCount.toLocaleString('en-US')} rows ${e.message} (the limit for one fit preview); thin the table or choose a cheaper method`, 'over-budget', [
-				{ field: 'method', problem: `over the ${formatBudget(PREVIEW_BUDGET_MS)} preview budget` }
-			]);
-		}
-		if (e instanceof OffloadBusy) fail4xx(503, e.message, 'busy');
-		throw e;
-	}
+	const result = await onThread<SurfacePreviewResult>(
+		{ kind: 'surface-preview', inputs: inputIdx.map((i) => dataset.data[i]), y: dataset.data[j], method: request.method as never, options, through: request.through ?? null, map, resolution: request.resolution ?? MAP_RESOLUTION.default },
+		dataset.rowCount,
+		request.method
+	);
 	if (result.ok) return result.preview;
 	return problem(result.problem, names);
 }
