@@ -1,7 +1,9 @@
-// Fetching what the replay draws, on demand and once per page: a run's path
-// (from the path API, signed in or through a share token) and a fit's file
-// (rebuilt in the browser with fitFromJSON, so f′ and f″ are exact).
+// Fetching what the replay and the surface paths draw, on demand and once per
+// page: a run's path (from the path API, signed in or through a share token)
+// and a fit's file (rebuilt in the browser, so its derivatives are exact).
 import { fitFromJSON } from '$lib/numerics/fits/fitCurve';
+import { surfaceFromJSON } from '$lib/numerics/fits/surfaceFile';
+import type { SurfaceFit } from '$lib/numerics/fits/surfaceTypes';
 import type { CurveFit } from '$lib/numerics/fits/types';
 import type { ReplayPath } from '$lib/replay/lockstep';
 
@@ -34,12 +36,14 @@ function once<T>(url: string, read: (json: unknown) => T): Promise<T> {
 
 export const loadPath = (url: string) => once<ReplayPath>(url, (j) => j as ReplayPath);
 
-/** The fit behind an export document (`{ fit: {…} }`) or a bare fit file. */
-export const loadFit = (url: string) =>
-	once<CurveFit>(url, (j) => {
-		const body = j && typeof j === 'object' && 'fit' in j ? (j as { fit: unknown }).fit : j;
-		return fitFromJSON(body);
-	});
+/** The fit file inside an export document (`{ fit: {…} }`), or a bare fit file as it is. */
+const fitBody = (j: unknown): unknown => (j && typeof j === 'object' && 'fit' in j ? (j as { fit: unknown }).fit : j);
+
+/** The curve fit behind an export document or a bare fit file. */
+export const loadFit = (url: string) => once<CurveFit>(url, (j) => fitFromJSON(fitBody(j)));
+
+/** The surface fit behind an export document or a bare fit file. */
+export const loadSurfaceFit = (url: string) => once<SurfaceFit>(url, (j) => surfaceFromJSON(fitBody(j)));
 
 /** f, f′ and f″ at x, or NaN where the fit refuses x. */
 export function jetAt(fit: CurveFit, x: number): { f: number; df: number; d2f: number } {
