@@ -360,4 +360,28 @@ describe('grid fits: bad input gets a typed error naming the input and the limit
 		expect(code(() => fit.evaluate([1]))).toMatch(/^shape-mismatch/);
 		expect(code(() => fitGrid('grid-linear', ax, vals, { extrapolation: 'hold' as never }))).toMatch(/^bad-option/);
 	});
+	it('the 2-D fast paths (value, valueGradient) refuse what the general path refuses', () => {
+		for (const m of ['grid-linear', 'grid-pchip'] as const) {
+			const fit = fitGrid(m, ax, vals);
+			const g = new Float64Array(2);
+			expect(code(() => fit.valueGradient([NaN, 1], g))).toMatch(/^invalid-point: .*input 1 is NaN/);
+			expect(code(() => fit.value([0.5, Infinity]))).toMatch(/^invalid-point: .*input 2 is Infinity/);
+			expect(code(() => fit.value([1]))).toMatch(/^shape-mismatch: .*2 inputs, got 1/);
+			expect(code(() => fit.valueGradient([ax[0][0] - 1, ax[1][0]], g))).toMatch(/^outside-domain: .*input 1 = /);
+			const ext = fitGrid(m, ax, vals, { extrapolation: 'extend' });
+			const far = [ax[0][2] + 5, ax[1][0] - 3];
+			expect(ext.valueGradient(far, g)).toBeCloseTo(ext.evaluate(far).f, 12);
+		}
+	});
+	it('Float64Array values: non-finite nodes named; grid-linear keeps the array (no copy), reversed axes copy', () => {
+		const bad = Float64Array.from(vals);
+		bad[3] = Infinity;
+		bad[7] = NaN;
+		expect(code(() => fitGrid('grid-linear', ax, bad))).toMatch(/^non-finite: .*grid nodes 4, 8 /);
+		expect(code(() => fitGrid('grid-akima', ax, bad))).toMatch(/^non-finite: .*grid nodes 4, 8 /);
+		const v = Float64Array.from(vals);
+		expect(fitGrid('grid-linear', ax, v).data).toBe(v);
+		const down = [ax[0].slice().reverse(), ax[1]];
+		expect(fitGrid('grid-linear', down, v).data).not.toBe(v);
+	});
 });

@@ -101,7 +101,11 @@ export function isGridMethod(method: unknown): method is GridMethod {
 	return typeof method === 'string' && Object.prototype.hasOwnProperty.call(gridMethods, method);
 }
 
-/** Fit values on a full grid (row-major, last input fastest). Throws FitError on bad input. */
+/**
+ * Fit values on a full grid (row-major, last input fastest). Throws FitError
+ * on bad input. A Float64Array of values on increasing axes is kept by
+ * grid-linear without a copy: do not change it while the fit is in use.
+ */
 export function fitGrid(method: GridMethod, axes: readonly ArrayLike<number>[], values: ArrayLike<number>, options?: SurfaceFitOptions): TensorGrid {
 	if (!isGridMethod(method)) throw new FitError('unknown-method', `unknown grid method ${JSON.stringify(method)}`);
 	return gridMethods[method].build(axes, values, options);

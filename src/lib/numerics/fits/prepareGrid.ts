@@ -6,6 +6,7 @@
  */
 import { FitError, describeRows } from './fitError';
 import { GRID_MAX_INPUTS } from './tensorGrid';
+import { allFinite } from '../math';
 
 export interface PreparedGrid {
 	axes: Float64Array[];
@@ -21,7 +22,8 @@ export function prepareGrid(axesIn: readonly ArrayLike<number>[], valuesIn: Arra
 	const axes: Float64Array[] = [];
 	const reversed: boolean[] = [];
 	for (let k = 0; k < d; k++) {
-		const a = Float64Array.from(axesIn[k]);
+		const src = axesIn[k];
+		const a = src instanceof Float64Array ? src.slice() : Float64Array.from(src);
 		const n = a.length;
 		if (n < minPoints) {
 			throw new FitError('too-few-points', `${label}: input ${k + 1} has ${n} grid value${n === 1 ? '' : 's'}; the method needs at least ${minPoints} per input`);
@@ -51,7 +53,24 @@ export function prepareGrid(axesIn: readonly ArrayLike<number>[], valuesIn: Arra
 	if (valuesIn.length !== total) {
 		throw new FitError('shape-mismatch', `${label}: a ${sizes.join(' × ')} grid has ${total} nodes, but ${valuesIn.length} values were given`);
 	}
+	if (!reversed.includes(true) && valuesIn instanceof Float64Array) {
+		// why no copy: the nodes are already in order, so the caller's array is kept as it is (as SciPy's
+		// RegularGridInterpolator keeps its values); fitGrid's contract says the caller must not change it
+		if (!allFinite(valuesIn)) throw nonFinite(label, badNodes(valuesIn, total));
+		return { axes, values: valuesIn, notes };
+	}
 	const values = new Float64Array(total);
+	if (!reversed.includes(true)) {
+		// every axis already increasing: the nodes are in the caller's order (the common case, one pass)
+		let ok = true;
+		for (let i = 0; i < total; i++) {
+			const v = valuesIn[i];
+			if (!Number.isFinite(v)) ok = false;
+			values[i] = v;
+		}
+		if (!ok) throw nonFinite(label, badNodes(valuesIn, total));
+		return { axes, values, notes };
+	}
 	const badV: number[] = [];
 	const idx = new Array<number>(d).fill(0);
 	for (let node = 0; node < total; node++) {
@@ -68,7 +87,17 @@ export function prepareGrid(axesIn: readonly ArrayLike<number>[], valuesIn: Arra
 	}
 	if (badV.length) {
 		badV.sort((p, q) => p - q);
-		throw new FitError('non-finite', `${label}: non-finite values at grid nodes ${describeRows(badV)} (1-based, last input fastest)`, badV);
+		throw nonFinite(label, badV);
 	}
 	return { axes, values, notes };
+}
+
+function nonFinite(label: string, bad: number[]): FitError {
+	return new FitError('non-finite', `${label}: non-finite values at grid nodes ${describeRows(bad)} (1-based, last input fastest)`, bad);
+}
+
+function badNodes(v: ArrayLike<number>, total: number): number[] {
+	const bad: number[] = [];
+	for (let i = 0; i < total; i++) if (!Number.isFinite(v[i])) bad.push(i + 1);
+	return bad;
 }
