@@ -92,6 +92,7 @@ describe('RBF fits vs SciPy RBFInterpolator (live)', () => {
 				for (let k = 0; k < p.length; k++) expectClose(jet.grad[k] * spans[k], ref[i].g[j][k], 1e-6, `∂f/∂x${k + 1} at probe ${j}`);
 				const g = new Float64Array(p.length);
 				expectClose(fit.valueGradient(p, g), jet.f, 1e-13);
+				expectClose(fit.value(p), jet.f, 1e-13);
 				for (let k = 0; k < p.length; k++) expectClose(g[k], jet.grad[k], 1e-12);
 			});
 		});

@@ -22,6 +22,7 @@
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { FitError } from './fitError';
+import { kernelSum, kernelSumGradient, type Kernel } from './radialBasisSums';
 import { decodeArray, decodeNumber, encodeArray, encodeNumber, fitFileEnvelope } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
 import type { Continuity } from './types';
@@ -54,8 +55,6 @@ function hagerInverseNorm(lu: LuDecomposition, N: number): number {
 	}
 	return est;
 }
-
-type Kernel = 'thin-plate' | 'multiquadric' | 'gaussian';
 
 /** g(s), g′(s), g″(s) of the squared scaled distance s, written to out[0..2]. */
 function kernelJet(kind: Kernel, e2: number, s: number, out: Float64Array): void {
@@ -271,54 +270,15 @@ export class RadialBasis implements SurfaceFit {
 
 	value(x: ArrayLike<number>): number {
 		this.scale(x);
-		const d = this.dimension;
-		const c = this.centres;
-		const u = this.u;
-		let f = this.tailValue();
-		for (let j = 0, o = 0; j < this.coefficients.length; j++, o += d) {
-			let s = 0;
-			for (let k = 0; k < d; k++) {
-				const t = u[k] - c[o + k];
-				s += t * t;
-			}
-			f += this.coefficients[j] * kernelValue(this.kind, this.e2, s);
-		}
-		return f;
+		return this.tailValue() + kernelSum(this.kind, this.e2, this.centres, this.coefficients, this.dimension, this.u);
 	}
 
 	valueGradient(x: ArrayLike<number>, grad: Float64Array): number {
 		this.scale(x);
 		const d = this.dimension;
-		const c = this.centres;
-		const u = this.u;
-		const kj = this.kj;
-		let f = this.tailValue();
-		grad.fill(0, 0, d);
-		const e2 = this.e2;
-		const coef = this.coefficients;
-		const thin = this.kind === 'thin-plate';
-		for (let j = 0, o = 0; j < coef.length; j++, o += d) {
-			let s = 0;
-			for (let k = 0; k < d; k++) {
-				const t = u[k] - c[o + k];
-				s += t * t;
-			}
-			const cj = coef[j];
-			let w: number;
-			if (thin) {
-				// inlined thin-plate g and g′ (the hot loop of batch evaluation)
-				if (s === 0) continue;
-				const L = Math.log(e2 * s);
-				f += cj * 0.5 * e2 * s * L;
-				w = cj * e2 * (L + 1);
-			} else {
-				kernelJet(this.kind, e2, s, kj);
-				f += cj * kj[0];
-				w = 2 * cj * kj[1];
-			}
-			for (let k = 0; k < d; k++) grad[k] += w * (u[k] - c[o + k]);
-		}
-		for (let k = 0; k < d; k++) grad[k] = (grad[k] + (this.tail.length > 1 ? this.tail[k + 1] : 0)) / this.span[k];
+		const f = this.tailValue() + kernelSumGradient(this.kind, this.e2, this.centres, this.coefficients, d, this.u, grad);
+		const t = this.tail;
+		for (let k = 0; k < d; k++) grad[k] = (grad[k] + (t.length > 1 ? t[k + 1] : 0)) / this.span[k];
 		return f;
 	}
 
