@@ -22,6 +22,7 @@
  */
 import { LuDecomposition, Matrix } from 'ml-matrix';
 import { FitError } from './fitError';
+import { factorProjected, type ProjectedSystem } from './radialBasisProjected';
 import { kernelSum, kernelSumGradient, type Kernel } from './radialBasisSums';
 import { decodeArray, decodeNumber, encodeArray, encodeNumber, fitFileEnvelope } from './fitFile';
 import type { HessianKind, ScatterMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats } from './surfaceTypes';
@@ -39,21 +40,49 @@ export const RBF_LOO_LIMIT = 1000;
  * SIAM J. Sci. Stat. Comput. 5(2):311–316) from a few solves with the LU
  * factors; M is symmetric, so the transposed solves are plain solves.
  */
-function hagerInverseNorm(lu: LuDecomposition, N: number): number {
-	let x = new Array<number>(N).fill(1 / N);
+function hagerInverseNorm(solve: (x: Float64Array) => Float64Array, N: number): number {
+	let x = new Float64Array(N).fill(1 / N);
 	let est = 0;
 	for (let iter = 0; iter < 5; iter++) {
-		const y = lu.solve(Matrix.columnVector(x)).getColumn(0);
-		const norm = y.reduce((p, v) => p + Math.abs(v), 0);
+		const y = solve(x);
+		let norm = 0;
+		for (let i = 0; i < N; i++) norm += Math.abs(y[i]);
 		if (iter > 0 && norm <= est) break;
 		est = norm;
-		const z = lu.solve(Matrix.columnVector(y.map((v) => (v >= 0 ? 1 : -1)))).getColumn(0);
+		const z = solve(y.map((v) => (v >= 0 ? 1 : -1)));
 		let j = 0;
 		for (let i = 1; i < N; i++) if (Math.abs(z[i]) > Math.abs(z[j])) j = i;
-		x = new Array<number>(N).fill(0);
+		x = new Float64Array(N);
 		x[j] = 1;
 	}
 	return est;
+}
+
+/**
+ * Order of conditional positive definiteness (Wendland 2005, ch. 8): the
+ * tail must hold the polynomials of degree below it (tail size ≥ order for
+ * orders 0–2, since a degree-1 tail in d inputs has d + 1 ≥ 2 terms).
+ */
+const CPD_ORDER: Record<Kernel, number> = { 'thin-plate': 2, multiquadric: 1, gaussian: 0 };
+
+/** Rows of K + λI (length rowLength ≥ n; the rest zero); the lower triangle is computed and mirrored. */
+function assembleKernel(kind: Kernel, e2: number, c: Float64Array, n: number, d: number, smoothing: number, rowLength: number): Float64Array[] {
+	const K = Array.from({ length: n }, () => new Float64Array(rowLength));
+	for (let i = 0; i < n; i++) {
+		const ri = K[i];
+		for (let j = 0; j < i; j++) {
+			let s = 0;
+			for (let k = 0; k < d; k++) {
+				const t = c[i * d + k] - c[j * d + k];
+				s += t * t;
+			}
+			const v = kernelValue(kind, e2, s);
+			ri[j] = v;
+			K[j][i] = v;
+		}
+		ri[i] = kernelValue(kind, e2, 0) + smoothing;
+	}
+	return K;
 }
 
 /** g(s), g′(s), g″(s) of the squared scaled distance s, written to out[0..2]. */
@@ -100,6 +129,8 @@ export class RadialBasis implements SurfaceFit {
 	readonly notes: readonly string[];
 	readonly options: Readonly<SurfaceFitOptions>;
 	readonly stats: Readonly<SurfaceStats>;
+	/** how the system was solved: LU of the saddle matrix, Cholesky of the tail-projected kernel block, or not at all (read from a fit file) */
+	readonly solver: 'lu' | 'projected-cholesky' | 'stored';
 	/** centres in scaled inputs, point after point */
 	readonly centres: Float64Array;
 	readonly coefficients: Float64Array;
@@ -160,80 +191,103 @@ export class RadialBasis implements SurfaceFit {
 		for (let i = 0; i < n; i++) for (let k = 0; k < d; k++) c[i * d + k] = (xIn[i][k] - this.lo[k]) / this.span[k];
 		this.centres = c;
 		refuseCoincident(c, n, d, method, xIn);
-		// the saddle-point matrix
+		// the kernel block K + λI, rows of length N so the LU path can add the tail in place
 		const N = n + tailSize;
-		const M = new Matrix(N, N);
-		for (let i = 0; i < n; i++) {
-			for (let j = 0; j <= i; j++) {
-				let s = 0;
-				for (let k = 0; k < d; k++) {
-					const t = c[i * d + k] - c[j * d + k];
-					s += t * t;
-				}
-				const v = kernelValue(this.kind, this.e2, s);
-				M.set(i, j, v);
-				M.set(j, i, v);
-			}
-			M.set(i, i, M.get(i, i) + smoothing);
-			if (tailSize > 0) {
-				M.set(i, n, 1);
-				M.set(n, i, 1);
-				for (let k = 0; k < tailSize - 1; k++) {
-					M.set(i, n + 1 + k, c[i * d + k]);
-					M.set(n + 1 + k, i, c[i * d + k]);
-				}
-			}
+		let K = assembleKernel(this.kind, this.e2, c, n, d, smoothing, N);
+		// 1-norm of the saddle matrix (symmetric: column sums = row sums)
+		let nA = tailSize > 0 ? n : 0;
+		for (let k = 0; k < tailSize - 1; k++) {
+			let s = 0;
+			for (let i = 0; i < n; i++) s += Math.abs(c[i * d + k]);
+			if (s > nA) nA = s;
 		}
-		const lu = new LuDecomposition(M);
-		if (lu.isSingular()) {
-			throw new FitError('singular', `${method}: the system is singular (points on a ${tailSize > 1 ? 'hyperplane the linear tail cannot separate' : 'degenerate set'}); add points or lower the tail degree`);
+		for (let i = 0; i < n; i++) {
+			const r = K[i];
+			let s = 0;
+			for (let j = 0; j < n; j++) s += Math.abs(r[j]);
+			if (tailSize > 0) s += 1;
+			for (let k = 0; k < tailSize - 1; k++) s += Math.abs(c[i * d + k]);
+			if (s > nA) nA = s;
 		}
 		const b = new Float64Array(N);
 		for (let i = 0; i < n; i++) b[i] = yIn[i];
-		// 1-norm of M (M is symmetric: columns = rows)
-		let nA = 0;
-		for (let j = 0; j < N; j++) {
-			let sa = 0;
-			for (let i = 0; i < N; i++) sa += Math.abs(M.get(i, j));
-			if (sa > nA) nA = sa;
-		}
 		let condition: number;
 		let loo: Float64Array | undefined;
 		let ss = 0;
 		const wantLoo = options?.leaveOneOut ?? n <= RBF_LOO_LIMIT;
-		if (wantLoo) {
-			// the inverse gives the exact 1-norm condition number and Rippa's leave-one-out residuals
-			const inv = lu.solve(Matrix.eye(N, N));
-			const z = new Float64Array(N);
-			for (let i = 0; i < N; i++) {
-				let t = 0;
-				for (let j = 0; j < n; j++) t += inv.get(i, j) * b[j];
-				z[i] = t;
-			}
+		// the projected Cholesky needs a kernel conditionally positive definite of an order the tail covers
+		let projected: ProjectedSystem | null = null;
+		if (!wantLoo && CPD_ORDER[this.kind] <= tailSize) {
+			const P = Array.from({ length: n }, (_, i) => {
+				const r = new Float64Array(tailSize);
+				if (tailSize > 0) r[0] = 1;
+				for (let k = 0; k < tailSize - 1; k++) r[k + 1] = c[i * d + k];
+				return r;
+			});
+			projected = factorProjected(K, P, n, tailSize);
+			// K was overwritten by the projection; the LU fallback needs it again
+			if (!projected) K = assembleKernel(this.kind, this.e2, c, n, d, smoothing, N);
+		}
+		if (projected) {
+			const sys = projected;
+			this.solver = 'projected-cholesky';
+			const z = sys.solve(b.subarray(0, n));
 			this.coefficients = z.slice(0, n);
 			this.tail = z.slice(n);
-			let nI = 0;
-			for (let j = 0; j < N; j++) {
-				let si = 0;
-				for (let i = 0; i < N; i++) si += Math.abs(inv.get(i, j));
-				if (si > nI) nI = si;
-			}
-			condition = nA * nI;
-			loo = new Float64Array(n);
-			let invDiagOk = true;
-			for (let i = 0; i < n; i++) {
-				const dii = inv.get(i, i);
-				if (dii === 0) invDiagOk = false;
-				loo[i] = this.coefficients[i] / dii;
-				ss += loo[i] * loo[i];
-			}
-			if (!invDiagOk) notes.push('leave-one-out: undefined for some points (the rest of the data cannot fit without them)');
-		} else {
-			const z = Float64Array.from(lu.solve(Matrix.columnVector(Array.from(b))).getColumn(0));
-			this.coefficients = z.slice(0, n);
-			this.tail = z.slice(n);
-			condition = nA * hagerInverseNorm(lu, N);
+			condition = nA * hagerInverseNorm((x) => sys.solve(x.subarray(0, n), x.subarray(n)), N);
 			notes.push(`leave-one-out not computed (${n} points; above ${RBF_LOO_LIMIT} it needs the full inverse)`);
+		} else {
+			this.solver = 'lu';
+			for (let i = 0; i < n; i++) {
+				const r = K[i];
+				if (tailSize > 0) r[n] = 1;
+				for (let k = 0; k < tailSize - 1; k++) r[n + 1 + k] = c[i * d + k];
+			}
+			for (let t = 0; t < tailSize; t++) {
+				const r = new Float64Array(N);
+				for (let i = 0; i < n; i++) r[i] = t === 0 ? 1 : c[i * d + t - 1];
+				K.push(r);
+			}
+			const M = new Matrix(K);
+			K = [];
+			const lu = new LuDecomposition(M);
+			if (lu.isSingular()) {
+				throw new FitError('singular', `${method}: the system is singular (points on a ${tailSize > 1 ? 'hyperplane the linear tail cannot separate' : 'degenerate set'}); add points or lower the tail degree`);
+			}
+			if (wantLoo) {
+				// the inverse gives the exact 1-norm condition number and Rippa's leave-one-out residuals
+				const inv = lu.solve(Matrix.eye(N, N));
+				const z = new Float64Array(N);
+				for (let i = 0; i < N; i++) {
+					let t = 0;
+					for (let j = 0; j < n; j++) t += inv.get(i, j) * b[j];
+					z[i] = t;
+				}
+				this.coefficients = z.slice(0, n);
+				this.tail = z.slice(n);
+				let nI = 0;
+				for (let j = 0; j < N; j++) {
+					let si = 0;
+					for (let i = 0; i < N; i++) si += Math.abs(inv.get(i, j));
+					if (si > nI) nI = si;
+				}
+				condition = nA * nI;
+				loo = new Float64Array(n);
+				let invDiagOk = true;
+				for (let i = 0; i < n; i++) {
+					const dii = inv.get(i, i);
+					if (dii === 0) invDiagOk = false;
+					loo[i] = this.coefficients[i] / dii;
+					ss += loo[i] * loo[i];
+				}
+				if (!invDiagOk) notes.push('leave-one-out: undefined for some points (the rest of the data cannot fit without them)');
+			} else {
+				const z = Float64Array.from(lu.solve(Matrix.columnVector(Array.from(b))).getColumn(0));
+				this.coefficients = z.slice(0, n);
+				this.tail = z.slice(n);
+				condition = nA * hagerInverseNorm((x) => Float64Array.from(lu.solve(Matrix.columnVector(Array.from(x))).getColumn(0)), N);
+				notes.push(`leave-one-out not computed (${n} points; above ${RBF_LOO_LIMIT} it needs the full inverse)`);
+			}
 		}
 		if (!(condition < RBF_CONDITION_WARNING)) {
 			notes.push(`ill-conditioned: condition number ≈ ${condition.toExponential(2)} (above ${RBF_CONDITION_WARNING.toExponential(0)}); values may carry large rounding errors — try smoothing > 0 or a different epsilon`);
@@ -380,6 +434,7 @@ export class RadialBasis implements SurfaceFit {
 			notes: Object.freeze(Array.isArray(o.notes) ? (o.notes as unknown[]).map(String) : []),
 			options: Object.freeze({ degree, smoothing, epsilon }),
 			stats: Object.freeze({ condition }),
+			solver: 'stored',
 			centres,
 			coefficients,
 			tail,
