@@ -34,7 +34,8 @@ export function akimaSlopes(x: Float64Array, y: ArrayLike<number>, modified: boo
  * buffer (slopes in slot 1, secants in slot 3 of each piece), so the slopes
  * cost no memory of their own. The two extended secants at each end are kept
  * apart. Original Akima makes two passes over the secants because its tie
- * threshold is relative to the largest weight sum over all knots.
+ * threshold is relative to the largest weight sum over all knots. The values
+ * are y[yo + i] (the grid fits pass one line of a larger plane).
  */
 export function akimaSlopesInto(
 	x: Float64Array,
@@ -43,14 +44,15 @@ export function akimaSlopesInto(
 	buf: Float64Array,
 	stride: number,
 	offset: number,
-	scratch: number
+	scratch: number,
+	yo = 0
 ): void {
 	const n = x.length;
 	let xp = x[0];
-	let yp = y[0];
+	let yp = y[yo];
 	for (let k = 0, o = scratch; k < n - 1; k++, o += stride) {
 		const xn = x[k + 1];
-		const yn = y[k + 1];
+		const yn = y[yo + k + 1];
 		buf[o] = (yn - yp) / (xn - xp);
 		xp = xn;
 		yp = yn;

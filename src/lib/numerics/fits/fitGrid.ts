@@ -3,7 +3,7 @@
  * fit by method name, or rebuild one from its fit file.
  */
 import { akimaSlopesInto } from './akimaSlopes';
-import { cubicSplineSlopesInto } from './cubicSplineSlopes';
+import { SplineLineSolver } from './cubicSplineSlopes';
 import { FitError } from './fitError';
 import { pchipSlopesInto } from './pchip';
 import { prepareGrid } from './prepareGrid';
@@ -23,26 +23,26 @@ export interface GridMethodInfo {
 }
 
 function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
-	let buf = new Float64Array(0);
-	return (x, y, out) => {
-		const n = x.length;
-		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
-		cubicSplineSlopesInto(x, y, { kind }, { kind }, buf, 2, 0, 1);
-		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+	// one factored system per axis (every line of an input shares it)
+	const solvers = new Map<Float64Array, SplineLineSolver>();
+	return (x, y, yo, out, oo) => {
+		let solver = solvers.get(x);
+		if (!solver) solvers.set(x, (solver = new SplineLineSolver(x, kind)));
+		solver.solve(y, yo, out, oo);
 	};
 }
 
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	return (x, y, out) => {
+	return (x, y, yo, out, oo) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
-		akimaSlopesInto(x, y, false, buf, 2, 0, 1);
-		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+		akimaSlopesInto(x, y, false, buf, 2, 0, 1, yo);
+		for (let i = 0; i < n; i++) out[oo + i] = buf[2 * i];
 	};
 }
 
-const pchipRule: LineSlopeRule = (x, y, out) => pchipSlopesInto(x, y, out, 1, 0);
+const pchipRule: LineSlopeRule = (x, y, yo, out, oo) => pchipSlopesInto(x, y, out, 1, oo, yo);
 
 function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
 	const ext = options?.extrapolation ?? 'refuse';

@@ -30,8 +30,8 @@ import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, Surface
 
 export const GRID_MAX_INPUTS = 4;
 
-/** Knot slopes of one grid line: writes t_i to out[i] for the line's values y (x strictly increasing). */
-export type LineSlopeRule = (x: Float64Array, y: Float64Array, out: Float64Array) => void;
+/** Knot slopes of one grid line: writes t_i to out[oo + i] for the line's values y[yo + i] (x strictly increasing). */
+export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, out: Float64Array, oo: number) => void;
 
 interface TensorGridInit {
 	method: GridMethod;
@@ -414,6 +414,14 @@ export class TensorGrid implements SurfaceFit {
  * Fills the derivative slots of cubic node data in place: slot S (a bit set of
  * inputs) along the grid lines of k = highest bit of S is `rule` applied to
  * slot S without k. Slot 0 must hold the values.
+ *
+ * Why planes and transposes: a grid line of any input but the last is strided
+ * in memory, and walking it touches one number per cache line. So each slot is
+ * built as its own plane (node order), the lines of input k are brought
+ * together by a blocked transpose of each (n_k × stride_k) block, the rule
+ * runs on contiguous lines (by offset: a subarray view per line costs more
+ * than the line's arithmetic), and the result is transposed back; the planes are
+ * interleaved into the node data at the end.
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
@@ -426,21 +434,60 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		strides[k] = s;
 		s *= sizes[k];
 	}
-	const maxN = Math.max(...sizes);
-	const line = new Float64Array(maxN);
-	const out = new Float64Array(maxN);
+	// slot planes, then two planes of transpose work, in one block reused from build to build
+	const block = planeScratch(total * (slots + 2));
+	const planes = Array.from({ length: slots }, (_, S) => block.subarray(S * total, (S + 1) * total));
+	const work = [block.subarray(slots * total, (slots + 1) * total), block.subarray((slots + 1) * total, (slots + 2) * total)];
+	for (let node = 0; node < total; node++) planes[0][node] = data[node * slots];
 	for (let S = 1; S < slots; S++) {
 		const k = 31 - Math.clz32(S);
-		const from = S ^ (1 << k);
+		const src = planes[S ^ (1 << k)];
+		const dst = planes[S];
 		const n = sizes[k];
-		const yk = line.subarray(0, n);
-		const tk = out.subarray(0, n);
-		// every line of input k: nodes whose index along k is 0
-		for (let node = 0; node < total; node++) {
-			if (Math.floor(node / strides[k]) % n !== 0) continue;
-			for (let i = 0; i < n; i++) yk[i] = data[(node + i * strides[k]) * slots + from];
-			rule(axes[k], yk, tk);
-			for (let i = 0; i < n; i++) data[(node + i * strides[k]) * slots + S] = tk[i];
+		const inner = strides[k];
+		if (inner === 1) {
+			for (let o = 0; o < total; o += n) rule(axes[k], src, o, dst, o);
+			continue;
+		}
+		const [tin, tout] = work;
+		const run = n * inner;
+		for (let o = 0; o < total; o += run) {
+			transposeBlock(src, o, n, inner, tin);
+			for (let r = 0; r < inner; r++) rule(axes[k], tin, o + r * n, tout, o + r * n);
+			transposeBlock(tout, o, inner, n, dst);
+		}
+	}
+	for (let S = 1; S < slots; S++) {
+		const p = planes[S];
+		for (let node = 0; node < total; node++) data[node * slots + S] = p[node];
+	}
+}
+
+/**
+ * Why a kept block: a fresh typed array of a few hundred kilobytes costs more
+ * here (page faults and zeroing on first touch) than the slope rules' work on
+ * it. Blocks up to POOL_LIMIT numbers are kept for the next build (one per
+ * thread: builds are synchronous); larger ones are left to the collector.
+ */
+const POOL_LIMIT = 1 << 20;
+let pool = new Float64Array(0);
+function planeScratch(size: number): Float64Array {
+	if (size > POOL_LIMIT) return new Float64Array(size);
+	if (pool.length < size) pool = new Float64Array(size);
+	return pool;
+}
+
+/** out[o + c·rows + r] = a[o + r·cols + c] for the rows × cols block at offset o, in 32 × 32 tiles. */
+function transposeBlock(a: Float64Array, o: number, rows: number, cols: number, out: Float64Array): void {
+	const T = 32;
+	for (let r0 = 0; r0 < rows; r0 += T) {
+		const r1 = Math.min(rows, r0 + T);
+		for (let c0 = 0; c0 < cols; c0 += T) {
+			const c1 = Math.min(cols, c0 + T);
+			for (let r = r0; r < r1; r++) {
+				const from = o + r * cols;
+				for (let c = c0; c < c1; c++) out[o + c * rows + r] = a[from + c];
+			}
 		}
 	}
 }
