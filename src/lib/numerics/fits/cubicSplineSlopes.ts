@@ -233,13 +233,13 @@ export class SplineLineSolver {
 		this.inv[N] = 1 / (bN - aN * this.cp[N - 1]);
 	}
 
-	/** Writes the knot slopes of the values y[yo + i] to out[oo + i]. */
-	solve(y: ArrayLike<number>, yo: number, out: Float64Array, oo: number): void {
+	/** Writes the knot slopes of the values y[yo + i] to out[oo + os·i]. */
+	solve(y: ArrayLike<number>, yo: number, out: Float64Array, oo: number, os = 1): void {
 		const n = this.n;
 		if (n <= 3) {
 			const buf = new Float64Array(2 * n);
 			cubicSplineSlopesInto(this.x, y, this.end, this.end, buf, 2, 0, 1, yo);
-			for (let i = 0; i < n; i++) out[oo + i] = buf[2 * i];
+			for (let i = 0; i < n; i++) out[oo + os * i] = buf[2 * i];
 			return;
 		}
 		const N = n - 1;
@@ -261,14 +261,14 @@ export class SplineLineSolver {
 				mHere = (yr - yl) * invH[i];
 			}
 			sp = (wPrev[i] * mPrev + wHere[i] * mHere - sub[i] * sp) * inv[i];
-			out[oo + i] = sp;
+			out[oo + os * i] = sp;
 		}
 		// row N: m_{N−2} is mPrev, m_{N−1} is mHere after the loop
 		let next = (wPrev[N] * mPrev + wHere[N] * mHere - sub[N] * sp) * inv[N];
-		out[oo + N] = next;
-		for (let i = N - 1; i >= 0; i--) {
-			next = out[oo + i] - cp[i] * next;
-			out[oo + i] = next;
+		out[oo + os * N] = next;
+		for (let i = N - 1, q = oo + os * (N - 1); i >= 0; i--, q -= os) {
+			next = out[q] - cp[i] * next;
+			out[q] = next;
 		}
 	}
 }

@@ -30,8 +30,8 @@ import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, Surface
 
 export const GRID_MAX_INPUTS = 4;
 
-/** Knot slopes of one grid line: writes t_i to out[oo + i] for the line's values y[yo + i] (x strictly increasing). */
-export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, out: Float64Array, oo: number) => void;
+/** Knot slopes of one grid line: writes t_i to out[oo + os·i] for the line's values y[yo + i] (x strictly increasing). */
+export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, out: Float64Array, oo: number, os: number) => void;
 
 interface TensorGridInit {
 	method: GridMethod;
@@ -415,13 +415,13 @@ export class TensorGrid implements SurfaceFit {
  * inputs) along the grid lines of k = highest bit of S is `rule` applied to
  * slot S without k. Slot 0 must hold the values.
  *
- * Why planes and transposes: a grid line of any input but the last is strided
- * in memory, and walking it touches one number per cache line. So each slot is
- * built as its own plane (node order), the lines of input k are brought
- * together by a blocked transpose of each (n_k × stride_k) block, the rule
- * runs on contiguous lines (by offset: a subarray view per line costs more
- * than the line's arithmetic), and the result is transposed back; the planes are
- * interleaved into the node data at the end.
+ * Lines of the last input are contiguous nodes: each is read into a line
+ * buffer and the rule writes its slopes straight into the node data. A line
+ * of any other input is strided in memory, and walking it touches one number
+ * per cache line; so each (n_k × stride_k) block is gathered transposed (in
+ * tiles) into a work plane, the rule runs on its contiguous lines (by offset:
+ * a subarray view per line costs more than the line's arithmetic), and the
+ * result is scattered back transposed.
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
@@ -434,32 +434,49 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		strides[k] = s;
 		s *= sizes[k];
 	}
-	// slot planes, then two planes of transpose work, in one block reused from build to build
-	const block = planeScratch(total * (slots + 2));
-	const planes = Array.from({ length: slots }, (_, S) => block.subarray(S * total, (S + 1) * total));
-	const work = [block.subarray(slots * total, (slots + 1) * total), block.subarray((slots + 1) * total, (slots + 2) * total)];
-	for (let node = 0; node < total; node++) planes[0][node] = data[node * slots];
+	const line = new Float64Array(Math.max(...sizes));
+	const block = d > 1 ? planeScratch(2 * total) : line;
+	const tin = block.subarray(0, total);
+	const tout = block.subarray(total, 2 * total);
 	for (let S = 1; S < slots; S++) {
 		const k = 31 - Math.clz32(S);
-		const src = planes[S ^ (1 << k)];
-		const dst = planes[S];
+		const from = S ^ (1 << k);
 		const n = sizes[k];
 		const inner = strides[k];
+		const x = axes[k];
 		if (inner === 1) {
-			for (let o = 0; o < total; o += n) rule(axes[k], src, o, dst, o);
+			for (let o = 0; o < total; o += n) {
+				for (let i = 0, q = o * slots + from; i < n; i++, q += slots) line[i] = data[q];
+				rule(x, line, 0, data, o * slots + S, slots);
+			}
 			continue;
 		}
-		const [tin, tout] = work;
 		const run = n * inner;
 		for (let o = 0; o < total; o += run) {
-			transposeBlock(src, o, n, inner, tin);
-			for (let r = 0; r < inner; r++) rule(axes[k], tin, o + r * n, tout, o + r * n);
-			transposeBlock(tout, o, inner, n, dst);
+			moveTransposed(data, o, slots, from, n, inner, tin, true);
+			for (let c = 0; c < inner; c++) rule(x, tin, c * n, tout, c * n, 1);
+			moveTransposed(data, o, slots, S, n, inner, tout, false);
 		}
 	}
-	for (let S = 1; S < slots; S++) {
-		const p = planes[S];
-		for (let node = 0; node < total; node++) data[node * slots + S] = p[node];
+}
+
+/**
+ * Between slot `slot` of the rows × cols block of nodes starting at node o
+ * (node o + r·cols + c) and a plane holding it transposed (plane[c·rows + r]):
+ * gather into the plane, or scatter from it. In 32 × 32 tiles.
+ */
+function moveTransposed(data: Float64Array, o: number, slots: number, slot: number, rows: number, cols: number, plane: Float64Array, gather: boolean): void {
+	const T = 32;
+	for (let r0 = 0; r0 < rows; r0 += T) {
+		const r1 = Math.min(rows, r0 + T);
+		for (let c0 = 0; c0 < cols; c0 += T) {
+			const c1 = Math.min(cols, c0 + T);
+			for (let r = r0; r < r1; r++) {
+				const base = (o + r * cols) * slots + slot;
+				if (gather) for (let c = c0; c < c1; c++) plane[c * rows + r] = data[base + c * slots];
+				else for (let c = c0; c < c1; c++) data[base + c * slots] = plane[c * rows + r];
+			}
+		}
 	}
 }
 
@@ -475,19 +492,4 @@ function planeScratch(size: number): Float64Array {
 	if (size > POOL_LIMIT) return new Float64Array(size);
 	if (pool.length < size) pool = new Float64Array(size);
 	return pool;
-}
-
-/** out[o + c·rows + r] = a[o + r·cols + c] for the rows × cols block at offset o, in 32 × 32 tiles. */
-function transposeBlock(a: Float64Array, o: number, rows: number, cols: number, out: Float64Array): void {
-	const T = 32;
-	for (let r0 = 0; r0 < rows; r0 += T) {
-		const r1 = Math.min(rows, r0 + T);
-		for (let c0 = 0; c0 < cols; c0 += T) {
-			const c1 = Math.min(cols, c0 + T);
-			for (let r = r0; r < r1; r++) {
-				const from = o + r * cols;
-				for (let c = c0; c < c1; c++) out[o + c * rows + r] = a[from + c];
-			}
-		}
-	}
 }
