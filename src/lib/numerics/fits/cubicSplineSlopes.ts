@@ -233,6 +233,53 @@ export class SplineLineSolver {
 		this.inv[N] = 1 / (bN - aN * this.cp[N - 1]);
 	}
 
+	/**
+	 * `count` lines at once: line l has its values at y[yo + l·yStep + i] and
+	 * its slopes go to out[oo + l·oStep + os·i]. Why pairs: each sweep is a
+	 * chain of dependent multiply–adds, so one line leaves the FPU waiting;
+	 * two independent chains in one loop nearly halve the time per line.
+	 */
+	solveLines(y: ArrayLike<number>, yo: number, yStep: number, out: Float64Array, oo: number, os: number, oStep: number, count: number): void {
+		let l = 0;
+		if (this.n > 3) for (; l + 1 < count; l += 2) this.solvePair(y, yo + l * yStep, yo + (l + 1) * yStep, out, oo + l * oStep, oo + (l + 1) * oStep, os);
+		for (; l < count; l++) this.solve(y, yo + l * yStep, out, oo + l * oStep, os);
+	}
+
+	private solvePair(y: ArrayLike<number>, ya: number, yb: number, out: Float64Array, oa: number, ob: number, os: number): void {
+		const N = this.n - 1;
+		const { invH, wPrev, wHere, sub, inv, cp } = this;
+		let pa = (y[ya + 1] - y[ya]) * invH[0];
+		let pb = (y[yb + 1] - y[yb]) * invH[0];
+		let ha = (y[ya + 2] - y[ya + 1]) * invH[1];
+		let hb = (y[yb + 2] - y[yb + 1]) * invH[1];
+		let sa = (wPrev[0] * pa + wHere[0] * ha) * inv[0];
+		let sb = (wPrev[0] * pb + wHere[0] * hb) * inv[0];
+		out[oa] = sa;
+		out[ob] = sb;
+		for (let i = 1; i < N; i++) {
+			if (i > 1) {
+				pa = ha;
+				pb = hb;
+				ha = (y[ya + i + 1] - y[ya + i]) * invH[i];
+				hb = (y[yb + i + 1] - y[yb + i]) * invH[i];
+			}
+			sa = (wPrev[i] * pa + wHere[i] * ha - sub[i] * sa) * inv[i];
+			sb = (wPrev[i] * pb + wHere[i] * hb - sub[i] * sb) * inv[i];
+			out[oa + os * i] = sa;
+			out[ob + os * i] = sb;
+		}
+		let na = (wPrev[N] * pa + wHere[N] * ha - sub[N] * sa) * inv[N];
+		let nb = (wPrev[N] * pb + wHere[N] * hb - sub[N] * sb) * inv[N];
+		out[oa + os * N] = na;
+		out[ob + os * N] = nb;
+		for (let i = N - 1, q = os * (N - 1); i >= 0; i--, q -= os) {
+			na = out[oa + q] - cp[i] * na;
+			nb = out[ob + q] - cp[i] * nb;
+			out[oa + q] = na;
+			out[ob + q] = nb;
+		}
+	}
+
 	/** Writes the knot slopes of the values y[yo + i] to out[oo + os·i]. */
 	solve(y: ArrayLike<number>, yo: number, out: Float64Array, oo: number, os = 1): void {
 		const n = this.n;

@@ -25,24 +25,29 @@ export interface GridMethodInfo {
 function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
 	// one factored system per axis (every line of an input shares it)
 	const solvers = new Map<Float64Array, SplineLineSolver>();
-	return (x, y, yo, out, oo, os) => {
+	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		let solver = solvers.get(x);
 		if (!solver) solvers.set(x, (solver = new SplineLineSolver(x, kind)));
-		solver.solve(y, yo, out, oo, os);
+		solver.solveLines(y, yo, yStep, out, oo, os, oStep, count);
 	};
 }
 
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	return (x, y, yo, out, oo, os) => {
+	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
-		akimaSlopesInto(x, y, false, buf, 2, 0, 1, yo);
-		for (let i = 0; i < n; i++) out[oo + os * i] = buf[2 * i];
+		for (let l = 0; l < count; l++) {
+			akimaSlopesInto(x, y, false, buf, 2, 0, 1, yo + l * yStep);
+			const o = oo + l * oStep;
+			for (let i = 0; i < n; i++) out[o + os * i] = buf[2 * i];
+		}
 	};
 }
 
-const pchipRule: LineSlopeRule = (x, y, yo, out, oo, os) => pchipSlopesInto(x, y, out, os, oo, yo);
+const pchipRule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
+};
 
 function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
 	const ext = options?.extrapolation ?? 'refuse';

@@ -30,8 +30,11 @@ import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, Surface
 
 export const GRID_MAX_INPUTS = 4;
 
-/** Knot slopes of one grid line: writes t_i to out[oo + os·i] for the line's values y[yo + i] (x strictly increasing). */
-export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, out: Float64Array, oo: number, os: number) => void;
+/**
+ * Knot slopes of `count` grid lines of one input (x strictly increasing): line
+ * l's values are y[yo + l·yStep + i], its slopes t_i go to out[oo + l·oStep + os·i].
+ */
+export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, yStep: number, out: Float64Array, oo: number, os: number, oStep: number, count: number) => void;
 
 interface TensorGridInit {
 	method: GridMethod;
@@ -415,13 +418,14 @@ export class TensorGrid implements SurfaceFit {
  * inputs) along the grid lines of k = highest bit of S is `rule` applied to
  * slot S without k. Slot 0 must hold the values.
  *
- * Lines of the last input are contiguous nodes: each is read into a line
- * buffer and the rule writes its slopes straight into the node data. A line
+ * Lines of the last input are contiguous nodes: a few at a time are read into
+ * a line buffer and the rule writes their slopes straight into the node data. A line
  * of any other input is strided in memory, and walking it touches one number
  * per cache line; so each (n_k × stride_k) block is gathered transposed (in
  * tiles) into a work plane, the rule runs on its contiguous lines (by offset:
  * a subarray view per line costs more than the line's arithmetic), and the
- * result is scattered back transposed.
+ * result is scattered back transposed. Rules take many lines per call so the
+ * spline can sweep two at once.
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
@@ -434,7 +438,9 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		strides[k] = s;
 		s *= sizes[k];
 	}
-	const line = new Float64Array(Math.max(...sizes));
+	// lines of the last input are read LINES at a time into a line buffer
+	const LINES = 8;
+	const line = new Float64Array(LINES * Math.max(...sizes));
 	const block = d > 1 ? planeScratch(2 * total) : line;
 	const tin = block.subarray(0, total);
 	const tout = block.subarray(total, 2 * total);
@@ -445,16 +451,17 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		const inner = strides[k];
 		const x = axes[k];
 		if (inner === 1) {
-			for (let o = 0; o < total; o += n) {
-				for (let i = 0, q = o * slots + from; i < n; i++, q += slots) line[i] = data[q];
-				rule(x, line, 0, data, o * slots + S, slots);
+			for (let o = 0; o < total; o += LINES * n) {
+				const count = Math.min(LINES, (total - o) / n);
+				for (let i = 0, q = o * slots + from; i < count * n; i++, q += slots) line[i] = data[q];
+				rule(x, line, 0, n, data, o * slots + S, slots, n * slots, count);
 			}
 			continue;
 		}
 		const run = n * inner;
 		for (let o = 0; o < total; o += run) {
 			moveTransposed(data, o, slots, from, n, inner, tin, true);
-			for (let c = 0; c < inner; c++) rule(x, tin, c * n, tout, c * n, 1);
+			rule(x, tin, 0, n, tout, 0, 1, n, inner);
 			moveTransposed(data, o, slots, S, n, inner, tout, false);
 		}
 	}
