@@ -8,7 +8,7 @@ import { mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
 import { tellingStart } from '../../src/lib/replay/lockstep';
-import { apiTeamWithDataset, launch } from './browser';
+import { apiTeamWithDataset, expectContrast, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
 let context: BrowserContext;
@@ -170,6 +170,7 @@ describe('the demo study over torque × speed', () => {
 		await expectPathsOpenLikeTheCurveReplay(page, studyIdOf(page.url()), context);
 		await page.getByTestId('paths-start').selectOption('3');
 		await expect(page.locator('[data-testid="paths-map"][data-fit="grid-cubic-not-a-knot"]').textContent()).resolves.toMatch(/grid-cubic-not-a-knot \(C2\)\s*iteration 0 of \d+\s*ends\s+converged/);
+		await expectContrast(page, '[data-testid="paths"]', 'the paths on the maps');
 		await pathShots(page, 'demo-motor-paths');
 		await shots(page, 'demo-motor-study');
 		await page.close();
@@ -243,6 +244,7 @@ describe('a study over three inputs', () => {
 			await expect(page.getByTestId('paths-slices').getAttribute('data-frame')).resolves.toBe('0');
 			await expect.poll(() => slices.first().innerHTML()).not.toBe(sliceAt1);
 			expect(sliceAt0).toContain('<path');
+			await expectContrast(page, '[data-testid="paths"]', 'the paths input by input');
 			await pathShots(page, 'study-three-inputs-paths');
 			await shots(page, 'study-three-inputs');
 			await page.close();
