@@ -1,6 +1,8 @@
 // Debian's Chromium driven by playwright-core against the built app `npm test` started.
-import { chromium, type BrowserContext } from 'playwright-core';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { expect } from 'vitest';
 import os from 'node:os';
 import path from 'node:path';
 
@@ -68,4 +70,19 @@ export async function apiTeamWithDataset(context: BrowserContext, who: { email: 
 	const ds = await context.request.post(`/api/v1/workspaces/${slug}/datasets`, { data: dataset });
 	check(ds.status(), 201, 'dataset upload');
 	return { slug, datasetId: (await ds.json()).id };
+}
+
+const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+
+/** axe-core's contrast rule over one region of the page, run through the debugging protocol (the page's content policy would refuse an injected script). */
+export async function expectContrast(page: Page, selector: string, what: string) {
+	await page.evaluate(AXE);
+	const violations = await page.evaluate(async (sel) => {
+		// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		const axe = (window as any).axe;
+		const r = await axe.run(document.querySelector(sel), { runOnly: { type: 'rule', values: ['color-contrast'] } });
+		// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		return r.violations.flatMap((v: any) => v.nodes.map((n: any) => `${n.target.join(' ')}: ${n.failureSummary.split('\n').slice(1).join(' ')}`));
+	}, selector);
+	expect(violations, `${what}: text below WCAG AA contrast`).toEqual([]);
 }

@@ -4,16 +4,14 @@
 // to the end with the keyboard, sees linear end stalled on a marked knot and
 // Akima converged, opens f″, and opens the same replay signed out through a
 // share link. Screenshots at 1440 and 390 px under .data/screenshots/.
-import { mkdirSync, readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
+import { mkdirSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
 import { DEMO_EMAIL, DEMO_PASSWORD, DEMO_WORKSPACE } from '../../seeds/01_demo_accounts';
-import { BASE, launch } from './browser';
+import { BASE, expectContrast, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
-const AXE = readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
 const tag = randomBytes(4).toString('hex');
 let context: BrowserContext;
 let close: () => Promise<void>;
@@ -61,19 +59,6 @@ async function expectTheStory(page: Page) {
 	await expect(page.getByTestId('kink-explanation').first().textContent()).resolves.toMatch(/linear stalls on the knot at J = 0\.9\..*no gradient is zero/);
 	// and a screen reader hears it
 	await expect(page.getByTestId('replay-announce').textContent()).resolves.toMatch(/linear ended stalled at a kink; akima ended converged; pchip ended converged/);
-}
-
-/** axe-core's contrast rule over the replay, run through the debugging protocol (the page's content policy would refuse an injected script). */
-async function expectContrast(page: Page, what: string) {
-	await page.evaluate(AXE);
-	const violations = await page.evaluate(async () => {
-		// eslint-disable-next-line @typescript-eslint/no-explicit-any
-		const axe = (window as any).axe;
-		const r = await axe.run(document.querySelector('[data-testid="replay"]'), { runOnly: { type: 'rule', values: ['color-contrast'] } });
-		// eslint-disable-next-line @typescript-eslint/no-explicit-any
-		return r.violations.flatMap((v: any) => v.nodes.map((n: any) => `${n.target.join(' ')}: ${n.failureSummary.split('\n').slice(1).join(' ')}`));
-	});
-	expect(violations, `${what}: text below WCAG AA contrast`).toEqual([]);
 }
 
 async function shots(page: Page, name: string) {
@@ -174,7 +159,7 @@ describe('the replay in the browser', () => {
 		await page.getByTestId('replay-d2').locator('svg').first().waitFor();
 		await expect(page.getByTestId('toggle-d2').getAttribute('aria-expanded')).resolves.toBe('true');
 		await expect(page.getByTestId('replay-convergence').locator('svg').count()).resolves.toBeGreaterThanOrEqual(2);
-		await expectContrast(page, 'the replay');
+		await expectContrast(page, '[data-testid="replay"]', 'the replay');
 		await shots(page, 'replay');
 
 		// a scorecard row opens its fit in the replay, focus on Play so the keys work at once

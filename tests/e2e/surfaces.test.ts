@@ -7,7 +7,8 @@
 import { mkdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BrowserContext, Page } from 'playwright-core';
-import { apiTeamWithDataset, launch } from './browser';
+import { tellingStart } from '../../src/lib/replay/lockstep';
+import { apiTeamWithDataset, expectContrast, launch } from './browser';
 
 const SHOTS = '.data/screenshots';
 let context: BrowserContext;
@@ -32,6 +33,92 @@ async function shots(page: Page, name: string) {
 			expect(wide, 'sideways scroll at 390 px').toBeLessThanOrEqual(1);
 		}
 	}
+}
+
+const studyIdOf = (url: string) => url.split('/').at(-1)!;
+const frameText = (page: Page) => page.getByTestId('paths-controls').getByTestId('replay-frame').textContent();
+/** the segments of a map's trail so far (the moving layer's path: one L per step taken) */
+const trailSteps = async (page: Page, fit: string) => ((await page.locator(`[data-testid="paths-map"][data-fit="${fit}"] .replay-moving path[fill="none"]`).first().getAttribute('d')) ?? '').split('L').length - 1;
+
+type ApiRun = { method: string; optimizerIndex: number; startIndex: number; outcome: string; atKink: boolean; iterations: number; fitId: string; id: string; start: number[]; x: number[]; f: number | null };
+
+/**
+ * The paths view opens as the curve replay does (the same ReplaySession): the
+ * first optimizer, the start the fits disagree most from (tellingStart), the
+ * clock at iteration 0 with every path at its start; → and the Step button move
+ * every fit on by one, Space plays and pauses, End shows where each ended, Home
+ * goes back, and a new start goes back to iteration 0. Every fit follows the
+ * one clock: each shows min(clock, its own last iteration).
+ */
+async function expectPathsOpenLikeTheCurveReplay(page: Page, studyId: string, c: BrowserContext, where: 'map' | 'coordinate' = 'map') {
+	const { runs } = (await (await c.request.get(`/api/v1/studies/${studyId}/runs`)).json()) as { runs: ApiRun[] };
+	const opening = tellingStart(runs, 0);
+	expect(opening).not.toBeNull();
+	await expect(page.getByTestId('paths-optimizer').inputValue()).resolves.toBe('0');
+	await expect(page.getByTestId('paths-start').inputValue()).resolves.toBe(String(opening));
+	const shown = runs.filter((r) => r.optimizerIndex === 0 && r.startIndex === opening);
+	expect(shown.length).toBeGreaterThanOrEqual(2);
+	const last = Math.max(...shown.map((r) => r.iterations));
+	expect(last, 'the paths have steps to replay').toBeGreaterThan(3);
+	const item = (fit: string) => page.locator(`[data-testid="${where === 'map' ? 'paths-map' : 'paths-fit'}"][data-fit="${fit}"]`);
+	/** every fit at min(k, its last iteration), said as ended only at its end */
+	const expectAllAt = async (k: number) => {
+		await expect(frameText(page)).resolves.toBe(`iteration ${k} / ${last}`);
+		for (const r of shown) {
+			const at = Math.min(k, r.iterations);
+			await expect(item(r.method).getByTestId('panel-iteration').textContent(), r.method).resolves.toBe(`iteration ${at} of ${r.iterations}`);
+			await expect(item(r.method).getAttribute('data-ended'), r.method).resolves.toBe(String(at === r.iterations));
+			await expect(item(r.method).getByTestId('panel-outcome').textContent(), r.method).resolves.toMatch(new RegExp(`^\\s*${at === r.iterations ? 'ended' : 'ends'}\\s+${r.outcome}${r.atKink ? ' at a kink' : ''}\\s*$`));
+			if (where === 'map') await expect.poll(() => trailSteps(page, r.method), { message: `${r.method}'s trail at ${k}` }).toBe(at);
+		}
+	};
+	// at open: the first iteration, every path at its start
+	await expectAllAt(0);
+	// → with focus anywhere in the view, then the Step button: one iteration each time, on every fit
+	await page.getByTestId('paths-controls').getByRole('button', { name: /^Step forward/ }).focus();
+	await page.keyboard.press('ArrowRight');
+	await expectAllAt(1);
+	await expect(page.getByTestId('paths-announce').textContent()).resolves.toMatch(/^Iteration 1: /);
+	await page.getByTestId('paths-controls').getByRole('button', { name: /^Step forward/ }).click();
+	await expectAllAt(2);
+	// Space plays (the clock moves on by itself), Space pauses; the fits are still in lockstep (at ½ speed, so it is paused before the end)
+	await page.keyboard.press('[');
+	await expect(page.getByTestId('paths-controls').getByTestId('replay-speed').textContent()).resolves.toBe('0.5×');
+	await page.keyboard.press(' ');
+	await page.getByTestId('paths-controls').getByTestId('replay-frame').filter({ hasNotText: /^iteration 2 \// }).waitFor();
+	await page.keyboard.press(' ');
+	await expect(page.getByTestId('paths-controls').getByRole('button', { name: 'Play (Space)' }).count()).resolves.toBe(1);
+	const [, paused] = (await frameText(page))!.match(/^iteration (\d+) \//)!;
+	expect(Number(paused)).toBeGreaterThan(2);
+	await expectAllAt(Number(paused));
+	await page.keyboard.press(']');
+	// End: where each run ended; Home: back to the start
+	await page.keyboard.press('End');
+	await expectAllAt(last);
+	await page.keyboard.press('Home');
+	await expectAllAt(0);
+	// another start, from the end: the clock goes back to the first iteration, as the curve replay's does
+	await page.keyboard.press('End');
+	const other = [...new Set(runs.map((r) => r.startIndex))].find((s) => s !== opening)!;
+	await page.getByTestId('paths-start').selectOption(String(other));
+	await expect(frameText(page)).resolves.toMatch(/^iteration 0 \//);
+}
+
+/** the paths view alone at 1440 and 390 px, tall enough to show it whole */
+async function pathShots(page: Page, name: string) {
+	mkdirSync(SHOTS, { recursive: true });
+	const view = page.getByTestId('paths');
+	for (const width of [1440, 390]) {
+		await page.setViewportSize({ width, height: 900 });
+		await page.waitForTimeout(300); // the charts redraw at the new width
+		const box = await view.boundingBox();
+		await page.setViewportSize({ width, height: Math.ceil((box?.height ?? 900) + 200) });
+		await view.scrollIntoViewIfNeeded();
+		await view.screenshot({ path: `${SHOTS}/${name}-${width}.png` });
+		const wide = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+		expect(wide, `${name} scrolls sideways at ${width} px`).toBeLessThanOrEqual(1);
+	}
+	await page.setViewportSize({ width: 1280, height: 900 });
 }
 
 describe('the demo study over torque × speed', () => {
@@ -73,20 +160,18 @@ describe('the demo study over torque × speed', () => {
 		await expect(runs.locator('thead').textContent()).resolves.toContain('(torque, speed)');
 		await expect(runs.locator('tbody tr').first().locator('td').nth(6).textContent()).resolves.toMatch(/^[-\d.e]+, [-\d.e]+$/);
 		// the paths of one start on every fit's map, the C0 grid lines marked on the bilinear one
-		const maps = page.getByTestId('paths-on-map').locator('figure');
+		const maps = page.getByTestId('paths-map');
 		await expect(maps.count()).resolves.toBe(5);
-		await maps.first().locator('.replay-moving path').first().waitFor({ state: 'attached' });
-		await expect(maps.first().textContent()).resolves.toMatch(/grid-linear \(C0\) · stalled at a kink, \d+ iterations/);
+		await page.locator('[data-testid="paths-map"][data-ended]').first().waitFor();
+		await expect(maps.first().textContent()).resolves.toMatch(/grid-linear \(C0\)\s*iteration 0 of \d+\s*ends\s+stalled at a kink/);
 		await expect(maps.first().locator(`[stroke="#c2410c"] line, line[stroke="#c2410c"]`).count()).resolves.toBeGreaterThanOrEqual(6);
-		// the replay's own controls drive every map in lockstep: back to the first iteration, the trails shrink to the start
-		const trail = () => maps.nth(4).locator('.replay-moving path[fill="none"]').first().getAttribute('d');
-		const whole = await trail();
-		await page.getByTestId('paths-controls').getByRole('button', { name: /^First iteration/ }).click();
-		await expect.poll(trail).not.toBe(whole);
-		await page.getByTestId('paths-controls').getByRole('button', { name: /^Last iteration/ }).click();
-		await expect.poll(trail).toBe(whole);
+		// one colour scale for all the maps, with its legend
+		await expect(page.getByTestId('paths-legend').textContent()).resolves.toContain('efficiency');
+		await expectPathsOpenLikeTheCurveReplay(page, studyIdOf(page.url()), context);
 		await page.getByTestId('paths-start').selectOption('3');
-		await expect(maps.nth(4).textContent()).resolves.toMatch(/grid-cubic-not-a-knot \(C2\) · converged/);
+		await expect(page.locator('[data-testid="paths-map"][data-fit="grid-cubic-not-a-knot"]').textContent()).resolves.toMatch(/grid-cubic-not-a-knot \(C2\)\s*iteration 0 of \d+\s*ends\s+converged/);
+		await expectContrast(page, '[data-testid="paths"]', 'the paths on the maps');
+		await pathShots(page, 'demo-motor-paths');
 		await shots(page, 'demo-motor-study');
 		await page.close();
 	});
@@ -145,6 +230,22 @@ describe('a study over three inputs', () => {
 			await expect(slices.count()).resolves.toBe(3);
 			await slices.first().locator('svg [aria-label="line"] path').first().waitFor({ state: 'attached' });
 			await expect(slices.first().locator('svg [aria-label="line"] path').count()).resolves.toBe(2);
+			// the same clock and opening as the curve replay; the slices follow it
+			await expect(page.getByTestId('paths-slices').getAttribute('data-frame')).resolves.toBe('0');
+			const sliceAt0 = await slices.first().innerHTML();
+			await expectPathsOpenLikeTheCurveReplay(page, id, c, 'coordinate');
+			// (now on another start, at its first iteration) one step on, the slices are drawn through the next iterate
+			await page.getByTestId('paths-controls').getByRole('button', { name: /^Step forward/ }).click();
+			await expect(page.getByTestId('paths-slices').getAttribute('data-frame')).resolves.toBe('1');
+			const sliceAt1 = await slices.first().innerHTML();
+			await page.keyboard.press('End');
+			await expect.poll(() => slices.first().innerHTML()).not.toBe(sliceAt1);
+			await page.keyboard.press('Home');
+			await expect(page.getByTestId('paths-slices').getAttribute('data-frame')).resolves.toBe('0');
+			await expect.poll(() => slices.first().innerHTML()).not.toBe(sliceAt1);
+			expect(sliceAt0).toContain('<path');
+			await expectContrast(page, '[data-testid="paths"]', 'the paths input by input');
+			await pathShots(page, 'study-three-inputs-paths');
 			await shots(page, 'study-three-inputs');
 			await page.close();
 		} finally {

@@ -373,6 +373,41 @@ describe('grid fits: bad input gets a typed error naming the input and the limit
 			expect(ext.valueGradient(far, g)).toBeCloseTo(ext.evaluate(far).f, 12);
 		}
 	});
+	it('cell lookup on a very uneven axis: every node, every midpoint and random points match a linear scan (bilinear by hand)', () => {
+		// clustered knots, a huge gap, a near-duplicate pair: the bucket table's worst shapes (common practice, no source)
+		const a0 = [...Array.from({ length: 40 }, (_, i) => i * 1e-6), 1, 1e3, 1e3 + 1e-9, 2e3];
+		const a1 = [-5, -4.999, 0, 7, 7.0000001, 100];
+		const f = ([x, y]: number[]) => Math.sin(7 * x) + Math.cos(y) + x * y * 1e-3;
+		const fit = fitGrid('grid-linear', [a0, a1], tabulate([a0, a1], f));
+		const cell = (a: number[], v: number) => {
+			let i = 0;
+			while (i < a.length - 2 && a[i + 1] <= v) i++;
+			return i;
+		};
+		const byHand = (p: number[]) => {
+			const i = cell(a0, p[0]);
+			const j = cell(a1, p[1]);
+			const t = (p[0] - a0[i]) / (a0[i + 1] - a0[i]);
+			const s = (p[1] - a1[j]) / (a1[j + 1] - a1[j]);
+			const v = (ii: number, jj: number) => f([a0[ii], a1[jj]]);
+			return (1 - t) * ((1 - s) * v(i, j) + s * v(i, j + 1)) + t * ((1 - s) * v(i + 1, j) + s * v(i + 1, j + 1));
+		};
+		const pts: number[][] = [];
+		a0.forEach((x, i) => a1.forEach((y, j) => {
+			pts.push([x, y]);
+			if (i + 1 < a0.length && j + 1 < a1.length) pts.push([(x + a0[i + 1]) / 2, (y + a1[j + 1]) / 2]);
+		}));
+		let seed = 3;
+		const rnd = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+		for (let q = 0; q < 2000; q++) pts.push([2e3 * rnd() ** 4, -5 + 105 * rnd()]);
+		const g = new Float64Array(2);
+		for (const p of pts) {
+			const want = byHand(p);
+			expectClose(fit.value(p), want, 1e-12, `value at ${p}`);
+			expectClose(fit.valueGradient(p, g), want, 1e-12, `valueGradient at ${p}`);
+			expectClose(fit.evaluate(p).f, want, 1e-12, `evaluate at ${p}`);
+		}
+	});
 	it('Float64Array values: non-finite nodes named; grid-linear keeps the array (no copy), reversed axes copy', () => {
 		const bad = Float64Array.from(vals);
 		bad[3] = Infinity;

@@ -34,7 +34,8 @@ export function akimaSlopes(x: Float64Array, y: ArrayLike<number>, modified: boo
  * buffer (slopes in slot 1, secants in slot 3 of each piece), so the slopes
  * cost no memory of their own. The two extended secants at each end are kept
  * apart. Original Akima makes two passes over the secants because its tie
- * threshold is relative to the largest weight sum over all knots.
+ * threshold is relative to the largest weight sum over all knots. The values
+ * are y[yo + i] (the grid fits pass one line of a larger plane).
  */
 export function akimaSlopesInto(
 	x: Float64Array,
@@ -43,28 +44,28 @@ export function akimaSlopesInto(
 	buf: Float64Array,
 	stride: number,
 	offset: number,
-	scratch: number
+	scratch: number,
+	yo = 0
 ): void {
 	const n = x.length;
 	let xp = x[0];
-	let yp = y[0];
+	let yp = y[yo];
 	for (let k = 0, o = scratch; k < n - 1; k++, o += stride) {
 		const xn = x[k + 1];
-		const yn = y[k + 1];
+		const yn = y[yo + k + 1];
 		buf[o] = (yn - yp) / (xn - xp);
 		xp = xn;
 		yp = yn;
 	}
-	const sec = (k: number) => buf[scratch + stride * k];
 	// Extended secants m_{−2}, m_{−1} and m_{n−1}, m_n.
-	const m0 = sec(0);
-	const mm1 = 2 * m0 - sec(1);
+	const m0 = buf[scratch];
+	const mm1 = 2 * m0 - buf[scratch + stride];
 	const mm2 = 2 * mm1 - m0;
-	const mLast = sec(n - 2);
-	const mp1 = 2 * mLast - sec(n - 3);
+	const mLast = buf[scratch + stride * (n - 2)];
+	const mp1 = 2 * mLast - buf[scratch + stride * (n - 3)];
 	const mp2 = 2 * mp1 - mLast;
-	// m_{i+1} at the window's leading edge, for i = 0 … n − 1.
-	const lead = (i: number) => (i + 1 <= n - 2 ? buf[scratch + stride * (i + 1)] : i + 1 === n - 1 ? mp1 : mp2);
+	// m_{i+1} at the window's leading edge is buf[q] while i + 1 ≤ n − 2, then mp1, then mp2
+	// (written out, not as a closure: this is the inner loop of every grid line)
 
 	let cut = 0;
 	if (!modified) {
@@ -72,8 +73,8 @@ export function akimaSlopesInto(
 		let a = mm2;
 		let b = mm1;
 		let c = m0;
-		for (let i = 0; i < n; i++) {
-			const d = lead(i);
+		for (let i = 0, q = scratch + stride; i < n; i++, q += stride) {
+			const d = i + 1 <= n - 2 ? buf[q] : i + 1 === n - 1 ? mp1 : mp2;
 			const f12 = Math.abs(d - c) + Math.abs(b - a);
 			if (f12 > big) big = f12;
 			a = b;
@@ -85,8 +86,8 @@ export function akimaSlopesInto(
 	let a = mm2; // m_{i−2}
 	let b = mm1; // m_{i−1}
 	let c = m0; // m_i
-	for (let i = 0; i < n; i++) {
-		const d = lead(i); // m_{i+1}
+	for (let i = 0, q = scratch + stride; i < n; i++, q += stride) {
+		const d = i + 1 <= n - 2 ? buf[q] : i + 1 === n - 1 ? mp1 : mp2; // m_{i+1}
 		let t: number;
 		if (modified) {
 			const w1 = Math.abs(d - c) + 0.5 * Math.abs(d + c);

@@ -3,7 +3,7 @@
  * fit by method name, or rebuild one from its fit file.
  */
 import { akimaSlopesInto } from './akimaSlopes';
-import { cubicSplineSlopesInto } from './cubicSplineSlopes';
+import { SplineLineSolver } from './cubicSplineSlopes';
 import { FitError } from './fitError';
 import { pchipSlopesInto } from './pchip';
 import { prepareGrid } from './prepareGrid';
@@ -23,26 +23,31 @@ export interface GridMethodInfo {
 }
 
 function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
-	let buf = new Float64Array(0);
-	return (x, y, out) => {
-		const n = x.length;
-		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
-		cubicSplineSlopesInto(x, y, { kind }, { kind }, buf, 2, 0, 1);
-		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+	// one factored system per axis (every line of an input shares it)
+	const solvers = new Map<Float64Array, SplineLineSolver>();
+	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
+		let solver = solvers.get(x);
+		if (!solver) solvers.set(x, (solver = new SplineLineSolver(x, kind)));
+		solver.solveLines(y, yo, yStep, out, oo, os, oStep, count);
 	};
 }
 
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	return (x, y, out) => {
+	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
-		akimaSlopesInto(x, y, false, buf, 2, 0, 1);
-		for (let i = 0; i < n; i++) out[i] = buf[2 * i];
+		for (let l = 0; l < count; l++) {
+			akimaSlopesInto(x, y, false, buf, 2, 0, 1, yo + l * yStep);
+			const o = oo + l * oStep;
+			for (let i = 0; i < n; i++) out[o + os * i] = buf[2 * i];
+		}
 	};
 }
 
-const pchipRule: LineSlopeRule = (x, y, out) => pchipSlopesInto(x, y, out, 1, 0);
+const pchipRule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
+};
 
 function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
 	const ext = options?.extrapolation ?? 'refuse';

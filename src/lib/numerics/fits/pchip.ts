@@ -29,15 +29,15 @@ export function pchipSlopes(x: Float64Array, y: ArrayLike<number>): Float64Array
 	return t;
 }
 
-/** Writes t_i to out[offset + stride·i]; one pass with the secants carried along. */
-export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Float64Array, stride: number, offset: number): void {
+/** Writes t_i to out[offset + stride·i] for the values y[yo + i]; one pass with the secants carried along. */
+export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Float64Array, stride: number, offset: number, yo = 0): void {
 	const n = x.length;
 	if (n === 2) {
-		out[offset] = out[offset + stride] = (y[1] - y[0]) / (x[1] - x[0]);
+		out[offset] = out[offset + stride] = (y[yo + 1] - y[yo]) / (x[1] - x[0]);
 		return;
 	}
 	let hl = x[1] - x[0];
-	let ml = (y[1] - y[0]) / hl;
+	let ml = (y[yo + 1] - y[yo]) / hl;
 	const h0 = hl;
 	const m0 = ml;
 	let hr = 0;
@@ -46,7 +46,7 @@ export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Floa
 	let mPrev = 0;
 	for (let i = 1; i < n - 1; i++) {
 		hr = x[i + 1] - x[i];
-		mr = (y[i + 1] - y[i]) / hr;
+		mr = (y[yo + i + 1] - y[yo + i]) / hr;
 		let t = 0;
 		if (!(Math.sign(ml) !== Math.sign(mr) || ml === 0 || mr === 0)) {
 			const w1 = 2 * hr + hl;
@@ -59,7 +59,7 @@ export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Floa
 		hl = hr;
 		ml = mr;
 	}
-	out[offset] = endSlope(h0, x[2] - x[1], m0, (y[2] - y[1]) / (x[2] - x[1]));
+	out[offset] = endSlope(h0, x[2] - x[1], m0, (y[yo + 2] - y[yo + 1]) / (x[2] - x[1]));
 	// hr, mr: the last interval; hPrev, mPrev: the one before it.
 	out[offset + stride * (n - 1)] = endSlope(hr, hPrev, mr, mPrev);
 }

@@ -30,8 +30,11 @@ import type { GridMethod, HessianKind, SurfaceExtrapolation, SurfaceFit, Surface
 
 export const GRID_MAX_INPUTS = 4;
 
-/** Knot slopes of one grid line: writes t_i to out[i] for the line's values y (x strictly increasing). */
-export type LineSlopeRule = (x: Float64Array, y: Float64Array, out: Float64Array) => void;
+/**
+ * Knot slopes of `count` grid lines of one input (x strictly increasing): line
+ * l's values are y[yo + l·yStep + i], its slopes t_i go to out[oo + l·oStep + os·i].
+ */
+export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, yStep: number, out: Float64Array, oo: number, os: number, oStep: number, count: number) => void;
 
 interface TensorGridInit {
 	method: GridMethod;
@@ -75,6 +78,9 @@ export class TensorGrid implements SurfaceFit {
 	private readonly w1: Float64Array;
 	private readonly w2: Float64Array;
 	private readonly cell: Int32Array;
+	/** per input: the cell at the start of each of 4(n − 1) equal buckets of the axis, and buckets per unit */
+	private readonly bucketCell: Int32Array[];
+	private readonly bucketScale: Float64Array;
 	private readonly g2 = new Float64Array(2);
 
 	constructor(init: TensorGridInit) {
@@ -124,6 +130,21 @@ export class TensorGrid implements SurfaceFit {
 		this.w1 = new Float64Array(d * this.m);
 		this.w2 = new Float64Array(d * this.m);
 		this.cell = new Int32Array(d);
+		this.bucketScale = new Float64Array(d);
+		this.bucketCell = init.axes.map((a, k) => {
+			const n = a.length;
+			const B = 4 * (n - 1);
+			const scale = B / (a[n - 1] - a[0]);
+			this.bucketScale[k] = scale;
+			const cells = new Int32Array(B);
+			let i = 0;
+			for (let b = 0; b < B; b++) {
+				const start = a[0] + b / scale;
+				while (i < n - 2 && a[i + 1] <= start) i++;
+				cells[b] = i;
+			}
+			return cells;
+		});
 	}
 
 	/** Per input: locate the cell and fill the basis weights and their first and second derivatives. Returns true when outside. */
@@ -134,26 +155,9 @@ export class TensorGrid implements SurfaceFit {
 		for (let k = 0; k < d; k++) {
 			const a = this.axes[k];
 			const v = x[k];
-			if (!Number.isFinite(v)) throw new FitError('invalid-point', `${this.method}: input ${k + 1} is ${v}, not a finite number`);
 			const n = a.length;
-			if (v < a[0] || v > a[n - 1]) {
-				if (this.extrapolation === 'refuse') {
-					throw new FitError('outside-domain', `${this.method}: input ${k + 1} = ${v} lies outside the data [${a[0]}, ${a[n - 1]}]`);
-				}
-				outside = true;
-			}
-			// the cell [a_i, a_{i+1}] with a_i ≤ v < a_{i+1} (the last cell also takes the right end)
-			let lo = 0;
-			let hi = n - 2;
-			if (v >= a[hi]) lo = hi;
-			else if (v > a[0]) {
-				while (hi - lo > 1) {
-					const mid = (lo + hi) >> 1;
-					if (a[mid] <= v) lo = mid;
-					else hi = mid;
-				}
-			}
-			const i = lo;
+			const i = this.cellOf(k, v);
+			if (v < a[0] || v > a[n - 1]) outside = true;
 			this.cell[k] = i;
 			if (onLine) {
 				// why a tolerance: an optimizer that stops on a line lands within rounding of it
@@ -212,14 +216,24 @@ export class TensorGrid implements SurfaceFit {
 				throw new FitError('outside-domain', `${this.method}: input ${k + 1} = ${v} lies outside the data [${a[0]}, ${a[n - 1]}]`);
 			}
 		}
-		let lo = 0;
-		let hi = n - 2;
-		if (v >= a[hi]) return hi;
+		// why buckets: a binary search over a 200-point axis costs ~8 unpredictable branches; the bucket
+		// of v gives the cell at the bucket's start, and at most a step or two (uneven spacing) finds v's
+		if (v >= a[n - 2]) return n - 2;
 		if (v <= a[0]) return 0;
-		while (hi - lo > 1) {
-			const mid = (lo + hi) >> 1;
+		const cells = this.bucketCell[k];
+		let b = Math.floor((v - a[0]) * this.bucketScale[k]);
+		if (b >= cells.length) b = cells.length - 1;
+		// v's cell lies between the cells at this bucket's start and the next one's (usually the same
+		// cell, or the next); a search between them stays logarithmic on the most uneven axis
+		let lo = cells[b];
+		let hi = b + 1 < cells.length ? cells[b + 1] : n - 2;
+		// the bucket's start computed with rounding can land a hair past v (or short of it)
+		while (lo > 0 && a[lo] > v) lo--;
+		while (hi < n - 2 && a[hi + 1] <= v) hi++;
+		while (hi > lo) {
+			const mid = (lo + hi + 1) >> 1;
 			if (a[mid] <= v) lo = mid;
-			else hi = mid;
+			else hi = mid - 1;
 		}
 		return lo;
 	}
@@ -414,6 +428,15 @@ export class TensorGrid implements SurfaceFit {
  * Fills the derivative slots of cubic node data in place: slot S (a bit set of
  * inputs) along the grid lines of k = highest bit of S is `rule` applied to
  * slot S without k. Slot 0 must hold the values.
+ *
+ * Lines of the last input are contiguous nodes: a few at a time are read into
+ * a line buffer and the rule writes their slopes straight into the node data. A line
+ * of any other input is strided in memory, and walking it touches one number
+ * per cache line; so each (n_k × stride_k) block is gathered transposed (in
+ * tiles) into a work plane, the rule runs on its contiguous lines (by offset:
+ * a subarray view per line costs more than the line's arithmetic), and the
+ * result is scattered back transposed. Rules take many lines per call so the
+ * spline can sweep two at once.
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
@@ -426,21 +449,65 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		strides[k] = s;
 		s *= sizes[k];
 	}
-	const maxN = Math.max(...sizes);
-	const line = new Float64Array(maxN);
-	const out = new Float64Array(maxN);
+	// lines of the last input are read LINES at a time into a line buffer
+	const LINES = 8;
+	const line = new Float64Array(LINES * Math.max(...sizes));
+	const block = d > 1 ? planeScratch(2 * total) : line;
+	const tin = block.subarray(0, total);
+	const tout = block.subarray(total, 2 * total);
 	for (let S = 1; S < slots; S++) {
 		const k = 31 - Math.clz32(S);
 		const from = S ^ (1 << k);
 		const n = sizes[k];
-		const yk = line.subarray(0, n);
-		const tk = out.subarray(0, n);
-		// every line of input k: nodes whose index along k is 0
-		for (let node = 0; node < total; node++) {
-			if (Math.floor(node / strides[k]) % n !== 0) continue;
-			for (let i = 0; i < n; i++) yk[i] = data[(node + i * strides[k]) * slots + from];
-			rule(axes[k], yk, tk);
-			for (let i = 0; i < n; i++) data[(node + i * strides[k]) * slots + S] = tk[i];
+		const inner = strides[k];
+		const x = axes[k];
+		if (inner === 1) {
+			for (let o = 0; o < total; o += LINES * n) {
+				const count = Math.min(LINES, (total - o) / n);
+				for (let i = 0, q = o * slots + from; i < count * n; i++, q += slots) line[i] = data[q];
+				rule(x, line, 0, n, data, o * slots + S, slots, n * slots, count);
+			}
+			continue;
+		}
+		const run = n * inner;
+		for (let o = 0; o < total; o += run) {
+			moveTransposed(data, o, slots, from, n, inner, tin, true);
+			rule(x, tin, 0, n, tout, 0, 1, n, inner);
+			moveTransposed(data, o, slots, S, n, inner, tout, false);
 		}
 	}
+}
+
+/**
+ * Between slot `slot` of the rows × cols block of nodes starting at node o
+ * (node o + r·cols + c) and a plane holding it transposed (plane[c·rows + r]):
+ * gather into the plane, or scatter from it. In 32 × 32 tiles.
+ */
+function moveTransposed(data: Float64Array, o: number, slots: number, slot: number, rows: number, cols: number, plane: Float64Array, gather: boolean): void {
+	const T = 32;
+	for (let r0 = 0; r0 < rows; r0 += T) {
+		const r1 = Math.min(rows, r0 + T);
+		for (let c0 = 0; c0 < cols; c0 += T) {
+			const c1 = Math.min(cols, c0 + T);
+			for (let r = r0; r < r1; r++) {
+				const base = (o + r * cols) * slots + slot;
+				if (gather) for (let c = c0; c < c1; c++) plane[c * rows + r] = data[base + c * slots];
+				else for (let c = c0; c < c1; c++) data[base + c * slots] = plane[c * rows + r];
+			}
+		}
+	}
+}
+
+/**
+ * Why a kept block: a fresh typed array of a few hundred kilobytes costs more
+ * here (page faults and zeroing on first touch) than the slope rules' work on
+ * it. Blocks up to POOL_LIMIT numbers are kept for the next build (one per
+ * thread: builds are synchronous); larger ones are left to the collector.
+ */
+const POOL_LIMIT = 1 << 20;
+let pool = new Float64Array(0);
+function planeScratch(size: number): Float64Array {
+	if (size > POOL_LIMIT) return new Float64Array(size);
+	if (pool.length < size) pool = new Float64Array(size);
+	return pool;
 }
