@@ -10,9 +10,13 @@
  * with u the inputs scaled to unit range per input (so no input dominates the
  * distance because of its units) and λ ≥ 0 the smoothing. Kernels as SciPy's
  * RBFInterpolator: thin-plate r²·log r, multiquadric −√(1 + r²), Gaussian
- * exp(−r²). The saddle system is solved by LU (ml-matrix); its inverse gives
- * the exact 1-norm condition number and the leave-one-out residuals of
- * S. Rippa, 1999 (Adv. Comput. Math. 11:193–210): e_i = c_i / (M⁻¹)_ii.
+ * exp(−r²). With leave-one-out on (default up to RBF_LOO_LIMIT points) the
+ * saddle system is solved by LU (ml-matrix) and its inverse gives the exact
+ * 1-norm condition number and the leave-one-out residuals of S. Rippa, 1999
+ * (Adv. Comput. Math. 11:193–210): e_i = c_i / (M⁻¹)_ii. Without it the tail
+ * is projected out and the kernel block factored by Cholesky where the kernel
+ * allows (radialBasisProjected.ts), else by LU; the condition number is then
+ * Hager's estimate. `solver` says which ran.
  *
  * Derivatives use g(s) = φ(ε√s) of the squared distance s, so
  * ∂/∂u_k = 2g′(s)Δ_k and ∂²/∂u_k∂u_l = 4g″(s)Δ_kΔ_l + 2g′(s)δ_kl — no

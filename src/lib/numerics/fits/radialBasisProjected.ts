@@ -5,7 +5,8 @@
  *   [Pᵀ 0] [a] = [w],     K̃ = K + λI (n × n), P the tail's n × m columns,
  *
  * solved by projecting out the tail (H. Wendland, 2005, Scattered Data
- * Approximation, ch. 8; see docs/references.md, "Surfaces"). With the
+ * Approximation, ch. 8; M. Benzi, G. H. Golub, J. Liesen, 2005, section 6; see
+ * docs/references.md, "Scattered fits: solving the system"). With the
  * Householder QR P = Q[R; 0] and G = QᵀK̃Q in blocks (m, n − m), write
  * c = Q[γ; t]: then Rᵀγ = w, B t = (Qᵀr)₂ − G₂₁γ with B = G₂₂ = ZᵀK̃Z, and
  * R a = (Qᵀr)₁ − G₁₁γ − G₁₂t. When the kernel is conditionally positive
