@@ -266,6 +266,7 @@ export class TensorGrid implements SurfaceFit {
 			return lo + t * (hi - lo);
 		}
 		// Hermite weights along each input: value at the left node, slope there, value at the right, slope there
+		// (written out for both inputs, not through a helper: locals in registers are this path's whole gain)
 		const t2 = t * t;
 		const t3 = t2 * t;
 		const a0 = 2 * t3 - 3 * t2 + 1;
