@@ -35,10 +35,19 @@ describe('SplineLineSolver agrees with the one-line solve', () => {
 					const oStep = n * os + 1;
 					const out = new Float64Array(count * oStep + 4).fill(NaN);
 					new SplineLineSolver(x, kind).solveLines(y, 2, yStep, out, 1, os, oStep, count);
+					// the two solves round differently (reciprocal pivots against divisions); the difference grows
+					// with the system's conditioning, which the spacing ratio bounds (common practice, no source)
+					let hMin = Infinity;
+					let hMax = 0;
+					for (let i = 1; i < n; i++) {
+						hMin = Math.min(hMin, x[i] - x[i - 1]);
+						hMax = Math.max(hMax, x[i] - x[i - 1]);
+					}
+					const ratio = Math.max(1, hMax / hMin);
 					for (let l = 0; l < count; l++) {
 						const ref = oneLine(x, y.slice(2 + l * yStep, 2 + l * yStep + n), kind);
 						const scale = Math.max(1, ...ref.map(Math.abs));
-						for (let i = 0; i < n; i++) expect(Math.abs(out[1 + l * oStep + os * i] - ref[i])).toBeLessThanOrEqual(1e-11 * scale);
+						for (let i = 0; i < n; i++) expect(Math.abs(out[1 + l * oStep + os * i] - ref[i])).toBeLessThanOrEqual(1e-12 * ratio * scale);
 					}
 					// the gaps between strided outputs are left alone
 					if (os > 1) expect(Number.isNaN(out[2])).toBe(true);
