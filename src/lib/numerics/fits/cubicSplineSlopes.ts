@@ -173,6 +173,8 @@ export class SplineLineSolver {
 	private readonly sub: Float64Array;
 	private readonly cp: Float64Array;
 	private readonly inv: Float64Array;
+	/** the one-line solve's buffer for three knots or fewer (slopes and scratch interleaved) */
+	private readonly small = new Float64Array(6);
 
 	constructor(x: Float64Array, kind: 'natural' | 'not-a-knot') {
 		const n = x.length;
@@ -284,7 +286,7 @@ export class SplineLineSolver {
 	solve(y: ArrayLike<number>, yo: number, out: Float64Array, oo: number, os = 1): void {
 		const n = this.n;
 		if (n <= 3) {
-			const buf = new Float64Array(2 * n);
+			const buf = this.small;
 			cubicSplineSlopesInto(this.x, y, this.end, this.end, buf, 2, 0, 1, yo);
 			for (let i = 0; i < n; i++) out[oo + os * i] = buf[2 * i];
 			return;

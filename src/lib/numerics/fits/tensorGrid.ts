@@ -453,7 +453,7 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 	// lines of the last input are read LINES at a time into a line buffer
 	const LINES = 8;
 	const line = new Float64Array(LINES * Math.max(...sizes));
-	const block = d > 1 ? planeScratch(2 * total) : line;
+	const block = planeScratch(2 * total);
 	const tin = block.subarray(0, total);
 	const tout = block.subarray(total, 2 * total);
 	for (let S = 1; S < slots; S++) {
