@@ -35,7 +35,8 @@ export function surfaceConstraint(fit: SurfaceFit, c: ProblemSpec['constraints']
 		evaluate: (x) => {
 			const f = fit.valueGradient(x, g);
 			return { value: sign * (f - c.value), grad: Array.from(g, (v) => sign * v) };
-		}
+		},
+		...(fit.valueRounding ? { rounding: fit.valueRounding() } : {})
 	};
 }
 
@@ -57,7 +58,9 @@ export function surfaceProblem(fit: SurfaceFit, constraintFits: SurfaceFit[], sp
 		domain: fit.domain,
 		refuseOutside: fit.extrapolation === 'refuse',
 		constraints: spec.constraints.map((c, i) => surfaceConstraint(constraintFits[i], c)),
-		kinkAt: (x) => kinks.some((lines, k) => lines.some((v) => Math.abs(v - x[k]) <= tol[k]))
+		kinkAt: (x) => kinks.some((lines, k) => lines.some((v) => Math.abs(v - x[k]) <= tol[k])),
+		// the fit's own rounding level, where a few ulps of |f| would underrate it (radial-basis sums)
+		...(fit.valueRounding ? { fRounding: fit.valueRounding() } : {})
 	};
 	return { kind: spec.kind, ...(spec.kind === 'solve' ? { target: spec.target } : {}), objective };
 }

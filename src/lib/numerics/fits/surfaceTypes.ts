@@ -75,6 +75,13 @@ export interface SurfaceFit {
 	value(x: ArrayLike<number>): number;
 	/** value, with the gradient written to `grad` */
 	valueGradient(x: ArrayLike<number>, grad: Float64Array): number;
+	/**
+	 * The absolute rounding level of a value inside the data box, where it
+	 * exceeds a few units in the last place of |f| (a sum of large terms that
+	 * cancel: the radial-basis fits). Absent where a few ulps of |f| is right
+	 * (a grid cell's value is a short sum of nearby table values).
+	 */
+	valueRounding?(): number;
 	readonly notes: readonly string[];
 	readonly options: Readonly<SurfaceFitOptions>;
 	readonly stats: Readonly<SurfaceStats>;

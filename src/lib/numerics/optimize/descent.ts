@@ -21,7 +21,8 @@
  * optimization problems with simple constraints", SIAM J. Control Optim.
  * 20(2):221–246, 1982); the search runs up to the longest step that stays in
  * the box, and the accepted point is projected to remove rounding. The stop
- * test uses the projected gradient ‖x − P(x − ∇f)‖∞.
+ * test uses the projected gradient: the largest ∂f/∂xᵢ left once the inputs held
+ * on a bound by their gradient are set aside (Run.projectedGradNorm).
  */
 import { allFinite, identity, norm2, normInf } from './linalg';
 import { inverseBfgsUpdate } from './quasiNewton';

@@ -99,15 +99,22 @@ export function solveQpSubproblem(
 		// quadprog needs at least one constraint: 0ᵀd ≥ −1 is never active
 		cols.push({ a: new Array<number>(nv).fill(0), b: -1, tag: { type: 'slack', index: -1 } });
 	}
+	// The objective divided by σ, the power of two nearest B's largest diagonal entry (exact in
+	// floating point): the minimizer is the same, the multipliers come back times σ. quadprog's
+	// tests for a dependent or violated constraint compare against the objective's size, so
+	// without it the same QP with f in other units (B and g times 1e6) read as inconsistent.
+	let bMax = 0;
+	for (let i = 0; i < n; i++) bMax = Math.max(bMax, Math.abs(B[i][i]));
+	const sigma = bMax > 0 && Number.isFinite(bMax) ? 2 ** Math.round(Math.log2(bMax)) : 1;
 	// 1-based arrays for quadprog
 	const q = cols.length;
 	const Dmat: number[][] = [[]];
 	const dvec: number[] = [0];
 	for (let i = 0; i < nv; i++) {
 		const row = [0];
-		for (let j = 0; j < nv; j++) row.push(i < n && j < n ? B[i][j] : i === j ? (elastic as { reg: number }).reg : 0);
+		for (let j = 0; j < nv; j++) row.push((i < n && j < n ? B[i][j] : i === j ? (elastic as { reg: number }).reg : 0) / sigma);
 		Dmat.push(row);
-		dvec.push(i < n ? -g[i] : -(elastic as { weights: number[] }).weights[i - n]);
+		dvec.push((i < n ? -g[i] : -(elastic as { weights: number[] }).weights[i - n]) / sigma);
 	}
 	const Amat: number[][] = [[]];
 	for (let i = 0; i < nv; i++) {
@@ -154,7 +161,7 @@ export function solveQpSubproblem(
 	const zLo = new Array<number>(n).fill(0);
 	const zHi = new Array<number>(n).fill(0);
 	for (let j = 0; j < q; j++) {
-		let u = res.Lagrangian[j + 1] ?? 0;
+		let u = (res.Lagrangian[j + 1] ?? 0) * sigma;
 		if (!u) continue;
 		if (j < meq && flipped(j)) u = -u;
 		const { type, index } = cols[j].tag;

@@ -50,6 +50,9 @@ export const DEFAULT_SETTINGS: Omit<Settings, 'clock' | 'onIteration'> = {
 	secondOrderCheck: true
 };
 
+/** how close to a bound an input counts as on it, relative to max(1, |bound|) (common practice, no source) */
+const BOUND_SLACK = 1e-10;
+
 /** smallest gradTol honoured: about ten units of rounding (relative to the gradient scale) */
 export const MIN_GRAD_TOL = 1e-15;
 /** smallest step, f, feasibility and residual tolerance honoured (relative ones lose meaning below ε) */
@@ -205,6 +208,12 @@ export class Run {
 	private g0 = NaN;
 	/** gradTol clamped to what double precision can reach (see the constructor) */
 	readonly gradTol: number;
+	/**
+	 * The objective's own rounding level of f (`Objective.fRounding`; 0 when it
+	 * gives none): the floor of fNoise. Per constraint likewise (`cRounding`).
+	 */
+	readonly fRounding: number;
+	readonly cRounding: readonly number[];
 	private readonly t0: number;
 	private startX: number[] = [];
 
@@ -239,6 +248,13 @@ export class Run {
 				this.hi[i] = b;
 			});
 		}
+		const level = (v: unknown, what: string): number => {
+			if (v === undefined || v === null) return 0;
+			if (typeof v !== 'number' || !(v >= 0) || v === Infinity) throw new RangeError(`${what} must be a finite number ≥ 0, got ${v}`);
+			return v;
+		};
+		this.fRounding = level(obj.fRounding, 'objective.fRounding');
+		this.cRounding = (obj.constraints ?? []).map((c, i) => level(c.rounding, `constraints[${i}].rounding`));
 		this.hasBounds = this.lo.some((v) => v > -Infinity) || this.hi.some((v) => v < Infinity);
 		const pick = <K extends keyof Settings>(k: K, fallback: Settings[K]): Settings[K] => {
 			const v = (options as Partial<Settings>)[k];
@@ -437,11 +453,24 @@ export class Run {
 	 */
 	fNoise(f: number): number {
 		if (!Number.isFinite(f)) return 0;
-		if (this.mode !== 'least-squares') return 8 * EPS * Math.abs(f);
-		// F = ½r², r = f − target: the user's f carries 8ε(|target| + |r|), which F carries times |r|
+		if (this.mode !== 'least-squares') return Math.max(8 * EPS * Math.abs(f), this.fRounding);
+		// F = ½r², r = f − target: the user's f carries 8ε(|target| + |r|) (or the
+		// fit's own rounding level, when larger), which F carries times |r|
 		const r = Math.sqrt(2 * Math.abs(f));
-		const d = 8 * EPS * (Math.abs(this.target) + r);
+		const d = Math.max(8 * EPS * (Math.abs(this.target) + r), this.fRounding);
 		return r * d + d * d;
+	}
+
+	/**
+	 * The rounding level of a merit function f + Σ wᵢ·|cᵢ| at the value phi:
+	 * fNoise(phi) plus each weight times its constraint's rounding level (zero
+	 * where the constraint gives none; a few ulps of its value are inside
+	 * fNoise's relative term already).
+	 */
+	meritNoise(phi: number, weights: readonly number[]): number {
+		let s = this.fNoise(phi);
+		for (let i = 0; i < weights.length && i < this.cRounding.length; i++) s += Math.abs(weights[i]) * this.cRounding[i];
+		return s;
 	}
 
 	/**
@@ -494,18 +523,28 @@ export class Run {
 	}
 
 	/**
-	 * ‖x − P(x − g)‖∞: the projected gradient (plain ‖g‖∞ without bounds),
-	 * computed per component as min(|gᵢ|, room to the bound it points to) so
-	 * that a huge |xᵢ| cannot absorb gᵢ in rounding.
+	 * The projected gradient's size, in the gradient's units: ‖gᵢ‖∞ over the
+	 * inputs, leaving out each input that sits on a bound (within
+	 * 1e-10·max(1, |bound|)) which its −gᵢ points beyond — the bound-constrained
+	 * first-order condition (Nocedal & Wright 2006, §16.7 and eq. 12.34 for a
+	 * box). Not ‖x − P(x − g)‖∞: that caps a component at the room to its
+	 * bound, a length, so when f is scaled up the cap falls below a
+	 * tolerance that scales with f and a start with a large gradient reads as
+	 * stationary (scaling f by 1e6 did that). Without bounds it is ‖g‖∞.
 	 */
 	projectedGradNorm(x: number[], g: number[]): number {
 		let m = 0;
 		for (let i = 0; i < this.n; i++) {
 			const gi = g[i];
-			const v = gi > 0 ? Math.min(gi, x[i] - this.lo[i]) : gi < 0 ? Math.min(-gi, this.hi[i] - x[i]) : gi === 0 ? 0 : NaN;
+			const v = gi > 0 ? (this.onBound(x[i], this.lo[i]) ? 0 : gi) : gi < 0 ? (this.onBound(x[i], this.hi[i]) ? 0 : -gi) : gi === 0 ? 0 : NaN;
 			if (!(v <= m)) m = v; // NaN propagates
 		}
 		return m;
+	}
+
+	/** xᵢ on the (finite) bound b, within BOUND_SLACK·max(1, |b|) */
+	private onBound(xi: number, b: number): boolean {
+		return Number.isFinite(b) && Math.abs(xi - b) <= BOUND_SLACK * Math.max(1, Math.abs(b));
 	}
 
 	/** labels of the bounds x sits on: lo<j> / hi<j> */

@@ -130,7 +130,7 @@ export function checkSecondOrder(run: Run, p: Point, ctx: SecondOrderContext = {
 	} else if (ctx.derivativeFree) {
 		// central second differences of f (Nocedal & Wright 2006, eq. 8.9 and 8.10)
 		const h = 1e-4 * xs;
-		noise = (16 * EPS * Math.max(1, Math.abs(L0))) / (h * h);
+		noise = (2 * Math.max(8 * EPS * Math.max(1, Math.abs(L0)), run.fRounding)) / (h * h);
 		const side = (v: number[], t: number) => {
 			const q = tryEval(shifted(run, p.x, v, t));
 			return q ? valueL(q) : NaN;

@@ -80,7 +80,18 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 		if (!allFinite(C.values) || !C.grads.every(allFinite)) run.stop('diverged', `a constraint is not finite at the start ${fmt(p.x)}`, p);
 		run.record(p, { violation: run.violation(C.values), merit: p.f });
 
-		let B = identity(n);
+		// B starts as max(1, ‖∇F(start)‖∞)·I, the stopping test's gradient scale: the first
+		// QP step is then −∇F/‖∇F‖∞ (clipped by the box) whatever the units of f, so scaling f
+		// changes no step (above the floor 1, as for the stopping test); a reset keeps the
+		// scale B has learned (its mean diagonal) rather than returning to the units of x
+		const b0 = run.gradScale();
+		let B = identity(n, b0);
+		const resetB = () => {
+			let t = 0;
+			for (let i = 0; i < n; i++) t += B[i][i];
+			t /= n;
+			return identity(n, Number.isFinite(t) && t > 0 ? t : b0);
+		};
 		let fresh = true;
 		let firstWeights = true;
 		let slow = 0;
@@ -99,7 +110,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 			const lin = linearized(C);
 			let qp: QpSolution = solveQpSubproblem(B, g, lin, dLo, dHi);
 			if (qp.status === 'failed' && !fresh) {
-				B = identity(n);
+				B = resetB();
 				fresh = true;
 				run.resets++;
 				qp = solveQpSubproblem(B, g, lin, dLo, dHi);
@@ -190,7 +201,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 				if (mode === 'elastic' || (mode === 'descent' && v > feasTol))
 					run.stop('stalled', `locally infeasible: the linearized constraints are inconsistent and no step reduces the violation ${v.toExponential(2)}`);
 				if (!fresh) {
-					B = identity(n);
+					B = resetB();
 					fresh = true;
 					run.resets++;
 					continue;
@@ -236,7 +247,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 				// away): accept a step that keeps feasibility and meets the derivative form of
 				// sufficient decrease, φ′(α) ≤ (2η − 1)φ′(0) (approximate Wolfe, Hager & Zhang
 				// 2005, exact for a quadratic), with φ′ the Lagrangian's slope along d
-				if (Number.isFinite(phi) && phi <= phi0 + run.fNoise(phi0) && mode === 'qp' && slopeL0 < 0) {
+				if (Number.isFinite(phi) && phi <= phi0 + run.meritNoise(phi0, weights) && mode === 'qp' && slopeL0 < 0) {
 					const Cq = q.constraints();
 					if (run.violation(Cq.values) <= Math.max(run.violation(C.values), feasTol)) {
 						const sq = lagrangianSlope(q, qp.lambda, d);
@@ -282,7 +293,7 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 			if (!accepted) {
 				if (!sawFinite) run.stop('diverged', `f or a constraint is not finite at any trial step from ${fmt(x)}`);
 				if (!fresh) {
-					B = identity(n);
+					B = resetB();
 					fresh = true;
 					run.resets++;
 					retryNote = 'merit line search failed once; Hessian approximation reset';
@@ -306,13 +317,13 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 			const gp = gradL(p);
 			const y = gq.map((v, j) => v - gp[j]);
 			if (!allFinite(y)) {
-				B = identity(n);
+				B = resetB();
 				run.resets++;
 				fresh = true;
 			} else if (norm2(s) > 0) {
 				const up = dampedBfgsUpdate(B, s, y);
 				if (!up.ok) {
-					B = identity(n);
+					B = resetB();
 					run.resets++;
 					fresh = true;
 				} else fresh = false;

@@ -42,6 +42,11 @@ export interface Constraint {
 	evaluate(x: number[]): ConstraintValue;
 	/** shown in reasons, e.g. "thrust ≥ 120" */
 	label?: string;
+	/**
+	 * The absolute rounding level of `value`, where the fit knows it exceeds a
+	 * few units in the last place of |value| (see `Objective.fRounding`).
+	 */
+	rounding?: number;
 }
 
 export interface Objective {
@@ -62,6 +67,14 @@ export interface Objective {
 	refuseOutside?: boolean;
 	/** true when x sits on a knot where f′ jumps (from the fit's knots and smoothness audit) */
 	kinkAt?: (x: number[]) => boolean;
+	/**
+	 * The absolute rounding level of f over the domain, where the fit knows it
+	 * exceeds a few units in the last place of |f|: a value summed from large
+	 * terms that cancel (a radial-basis fit: about ε·Σ|c_j φ_j(x)|, which can be
+	 * 1e5 times ε|f| near a minimum). The optimizers take differences of f below
+	 * it as rounding, not as information (line searches, f-change tests, probes).
+	 */
+	fRounding?: number;
 }
 
 export interface Problem {
