@@ -82,16 +82,10 @@ export function sqp(problem: Problem, options: OptimizeOptions, start: number[])
 
 		// B starts as max(1, ‖∇F(start)‖∞)·I, the stopping test's gradient scale: the first
 		// QP step is then −∇F/‖∇F‖∞ (clipped by the box) whatever the units of f, so scaling f
-		// changes no step (above the floor 1, as for the stopping test); a reset keeps the
-		// scale B has learned (its mean diagonal) rather than returning to the units of x
+		// changes no step (above the floor 1, as for the stopping test); a reset returns to it
 		const b0 = run.gradScale();
 		let B = identity(n, b0);
-		const resetB = () => {
-			let t = 0;
-			for (let i = 0; i < n; i++) t += B[i][i];
-			t /= n;
-			return identity(n, Number.isFinite(t) && t > 0 ? t : b0);
-		};
+		const resetB = () => identity(n, b0);
 		let fresh = true;
 		let firstWeights = true;
 		let slow = 0;
