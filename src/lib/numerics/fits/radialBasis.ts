@@ -302,14 +302,10 @@ export class RadialBasis implements SurfaceFit {
 			}
 			if (wantLoo) {
 				// the inverse gives the exact 1-norm condition number and Rippa's leave-one-out residuals
+				// the coefficients by the LU solve itself (backward stable), not as M⁻¹b: the
+				// inverse serves the condition number and the leave-one-out residuals only
 				const inv = inverseFromLu(lu, N);
-				const z = new Float64Array(N);
-				for (let i = 0; i < N; i++) {
-					let t = 0;
-					const row = inv[i];
-					for (let j = 0; j < n; j++) t += row[j] * b[j];
-					z[i] = t;
-				}
+				const z = Float64Array.from(lu.solve(Matrix.columnVector(Array.from(b))).getColumn(0));
 				this.coefficients = z.slice(0, n);
 				this.tail = z.slice(n);
 				let nI = 0;
