@@ -244,6 +244,48 @@ describe('RBF fits: exactness, Hessians, leave-one-out', () => {
 		const ok = fitScatter('rbf-thin-plate', s.x, s.y);
 		expect(ok.notes.some((n) => n.startsWith('ill-conditioned'))).toBe(false);
 	});
+
+	// a 21 × 21 table of Rosenbrock's function (values 0 to ~3,600): with ε = 1 in unit-range inputs the
+	// Gaussian and multiquadric systems have condition numbers near 1e20 and the solve loses the data
+	const grid: number[][] = [];
+	for (let i = 0; i <= 20; i++) for (let j = 0; j <= 20; j++) grid.push([-2 + 0.2 * i, -1 + 0.2 * j]);
+	const rosen = grid.map(([x, y]) => 100 * (y - x * x) ** 2 + (1 - x) ** 2);
+
+	it('an interpolant that does not give its data back says so, naming the row and the size (ε = 1 on a 21 × 21 table)', () => {
+		for (const m of ['rbf-gaussian', 'rbf-multiquadric'] as ScatterMethod[]) {
+			const bad = fitScatter(m, grid, rosen, { epsilon: 1 });
+			// the residual measured here, independently of the fit's own figure
+			const worst = Math.max(...grid.map((p, i) => Math.abs(bad.value(p) - rosen[i])));
+			expect(worst).toBeGreaterThan(1e-6 * 3609);
+			expect(bad.stats.dataResidual).toBe(worst);
+			const note = bad.notes.find((n) => n.startsWith('does not reproduce its data'));
+			expect(note, `${m}: ${bad.notes.join(' | ')}`).toMatch(/off by [\d.e+]+ at row \d+ \([\d.e+]+ % of the values' range\).*larger epsilon/);
+		}
+		const good = fitScatter('rbf-thin-plate', grid, rosen);
+		expect(good.stats.dataResidual).toBeLessThanOrEqual(1e-6 * 3609);
+		expect(good.notes.some((n) => n.startsWith('does not reproduce'))).toBe(false);
+		// smoothing > 0 is not an interpolant: no such check, no such note
+		const smooth = fitScatter('rbf-gaussian', grid, rosen, { epsilon: 1, smoothing: 1 });
+		expect(smooth.stats.dataResidual).toBeUndefined();
+		expect(smooth.notes.some((n) => n.startsWith('does not reproduce'))).toBe(false);
+	});
+
+	it("the default ε of multiquadric and Gaussian follows Hardy's rule (R. L. Hardy 1971: c = 0.815 × mean nearest-neighbour distance; ε = 1/c here) and gives the data back", () => {
+		// the mean nearest-neighbour distance of the unit-range grid, by hand: every point's nearest neighbour is 1/20 away
+		const expected = 1 / (0.815 * 0.05);
+		for (const m of ['rbf-gaussian', 'rbf-multiquadric'] as ScatterMethod[]) {
+			const fit = fitScatter(m, grid, rosen);
+			expect(fit.options.epsilon).toBeCloseTo(expected, 10);
+			expect(fit.notes.some((n) => n.startsWith(`epsilon = ${Number(expected.toPrecision(3))} in unit-range inputs`))).toBe(true);
+			expect(fit.stats.dataResidual).toBeLessThanOrEqual(1e-6 * 3609);
+			expect(fit.stats.condition).toBeLessThan(1e8);
+			// the same fit as with that ε given explicitly (so the SciPy comparisons above, which give ε, cover it)
+			const explicit = fitScatter(m, grid, rosen, { epsilon: fit.options.epsilon });
+			expect(explicit.value([0.33, 1.71])).toBe(fit.value([0.33, 1.71]));
+		}
+		// thin-plate keeps ε = 1 (the kernel is scale-free up to a multiple of r²)
+		expect(fitScatter('rbf-thin-plate', grid, rosen).options.epsilon).toBe(1);
+	});
 });
 
 describe('RBF fits: bad input', () => {

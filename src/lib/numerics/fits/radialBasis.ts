@@ -120,6 +120,37 @@ function kernelValue(kind: Kernel, e2: number, s: number): number {
 	return s === 0 ? 0 : 0.5 * e2 * s * Math.log(e2 * s);
 }
 
+/** an interpolant (smoothing 0) off its data by more than this fraction of the values' range is reported (common practice, no source) */
+export const RBF_DATA_TOLERANCE = 1e-6;
+
+/**
+ * The default shape parameter of the multiquadric and Gaussian kernels:
+ * 1 / (0.815·d̄), d̄ the mean distance from each point to its nearest
+ * neighbour in the unit-range inputs (R. L. Hardy 1971, who set the
+ * multiquadric's c = 0.815·d̄; our kernels read √(1 + (εr)²), so ε = 1/c;
+ * see docs/references.md). With ε = 1 instead, a 21 × 21 table gave
+ * condition numbers near 1e20 and Gaussian values off their data by 5e4.
+ * Brute force, O(n²·d): small beside the solve.
+ */
+function hardyEpsilon(c: Float64Array, n: number, d: number): number {
+	let sum = 0;
+	for (let i = 0; i < n; i++) {
+		let best = Infinity;
+		for (let j = 0; j < n; j++) {
+			if (j === i) continue;
+			let s = 0;
+			for (let k = 0; k < d; k++) {
+				const t = c[i * d + k] - c[j * d + k];
+				s += t * t;
+			}
+			if (s < best) best = s;
+		}
+		sum += Math.sqrt(best);
+	}
+	const mean = sum / n;
+	return mean > 0 && Number.isFinite(mean) ? 1 / (0.815 * mean) : 1;
+}
+
 const KERNEL: Record<ScatterMethod, Kernel> = { 'rbf-thin-plate': 'thin-plate', 'rbf-multiquadric': 'multiquadric', 'rbf-gaussian': 'gaussian' };
 
 /**
@@ -193,10 +224,10 @@ export class RadialBasis implements SurfaceFit {
 		const n = xIn.length;
 		const degree = options?.degree ?? 1;
 		const smoothing = options?.smoothing ?? 0;
-		const epsilon = options?.epsilon ?? 1;
+		const given = options?.epsilon;
 		if (![-1, 0, 1].includes(degree)) throw new FitError('bad-option', `${method}: degree must be -1, 0 or 1, got ${degree}`);
 		if (!(smoothing >= 0) || !Number.isFinite(smoothing)) throw new FitError('bad-option', `${method}: smoothing must be a finite number ≥ 0, got ${smoothing}`);
-		if (!(epsilon > 0) || !Number.isFinite(epsilon)) throw new FitError('bad-option', `${method}: epsilon must be a finite number > 0, got ${epsilon}`);
+		if (given !== undefined && (!(given > 0) || !Number.isFinite(given))) throw new FitError('bad-option', `${method}: epsilon must be a finite number > 0, got ${given}`);
 		if (n === 0) throw new FitError('too-few-points', `${method}: no points`);
 		const d = xIn[0].length;
 		if (d < 1) throw new FitError('too-few-points', `${method}: points need at least 1 input`);
@@ -208,7 +239,6 @@ export class RadialBasis implements SurfaceFit {
 		this.method = method;
 		this.kind = KERNEL[method];
 		this.dimension = d;
-		this.e2 = epsilon * epsilon;
 		const notes: string[] = [];
 		this.lo = new Float64Array(d).fill(Infinity);
 		const hi = new Float64Array(d).fill(-Infinity);
@@ -237,6 +267,11 @@ export class RadialBasis implements SurfaceFit {
 		for (let i = 0; i < n; i++) for (let k = 0; k < d; k++) c[i * d + k] = (xIn[i][k] - this.lo[k]) / this.span[k];
 		this.centres = c;
 		refuseCoincident(c, n, d, method, xIn);
+		// thin-plate: ε only adds a multiple of r² to the kernel; 1 as SciPy. The others: Hardy's rule
+		const epsilon = given ?? (this.kind === 'thin-plate' ? 1 : hardyEpsilon(c, n, d));
+		if (given === undefined && this.kind !== 'thin-plate')
+			notes.push(`epsilon = ${Number(epsilon.toPrecision(3))} in unit-range inputs, from the point spacing (1 / (0.815 × mean nearest-neighbour distance), Hardy's rule); set epsilon to choose another`);
+		this.e2 = epsilon * epsilon;
 		// the kernel block K + λI, rows of length N so the LU path can add the tail in place
 		const N = n + tailSize;
 		let K = assembleKernel(this.kind, this.e2, c, n, d, smoothing, N);
@@ -336,14 +371,37 @@ export class RadialBasis implements SurfaceFit {
 		if (!(condition < RBF_CONDITION_WARNING)) {
 			notes.push(`ill-conditioned: condition number ≈ ${condition.toExponential(2)} (above ${RBF_CONDITION_WARNING.toExponential(0)}); values may carry large rounding errors — try smoothing > 0 or a different epsilon`);
 		}
+		this.u = new Float64Array(d);
+		let dataResidual = 0;
+		if (smoothing === 0) {
+			// an interpolant must give its data back; rounding in an ill-conditioned solve can undo that
+			let yLo = Infinity;
+			let yHi = -Infinity;
+			let worst = -1;
+			for (let i = 0; i < n; i++) {
+				yLo = Math.min(yLo, yIn[i]);
+				yHi = Math.max(yHi, yIn[i]);
+				this.u.set(c.subarray(i * d, i * d + d));
+				const r = Math.abs(this.tailValue() + kernelSum(this.kind, this.e2, c, this.coefficients, d, this.u) - yIn[i]);
+				if (!(r <= dataResidual)) {
+					dataResidual = r;
+					worst = i;
+				}
+			}
+			const range = yHi > yLo ? yHi - yLo : Math.max(Math.abs(yHi), Number.MIN_VALUE);
+			if (!(dataResidual <= RBF_DATA_TOLERANCE * range))
+				notes.push(
+					`does not reproduce its data: off by ${dataResidual.toPrecision(3)} at row ${worst + 1} (${((100 * dataResidual) / range).toPrecision(2)} % of the values' range) — the system is too ill-conditioned to solve; ${this.kind === 'thin-plate' ? 'use smoothing > 0' : 'use a larger epsilon (narrower kernels) or smoothing > 0'}`
+				);
+		}
 		if (this.kind === 'thin-plate') notes.push('thin-plate: C1 at the data points, where the Hessian is not defined (that point’s curvature term is left out)');
-		this.stats = Object.freeze(loo ? { condition, looResiduals: loo, looRms: Math.sqrt(ss / n) } : { condition });
+		const base = smoothing === 0 ? { condition, dataResidual } : { condition };
+		this.stats = Object.freeze(loo ? { ...base, looResiduals: loo, looRms: Math.sqrt(ss / n) } : base);
 		this.continuity = SURFACE_METHOD_CATALOGUE[this.method].continuity;
 		this.axisContinuity = Object.freeze(new Array<Continuity>(d).fill(this.continuity));
 		this.hessian = this.kind === 'thin-plate' ? 'piecewise' : 'exact';
 		this.notes = Object.freeze(notes);
 		this.options = Object.freeze({ degree, smoothing, epsilon });
-		this.u = new Float64Array(d);
 	}
 
 	private scale(x: ArrayLike<number>): boolean {

@@ -40,7 +40,10 @@ export interface SurfaceFitOptions {
 	extrapolation?: SurfaceExtrapolation;
 	/** rbf-*: smoothing ≥ 0 added to the kernel diagonal (0 = interpolate; default 0) */
 	smoothing?: number;
-	/** rbf-*: shape parameter ε of multiquadric and Gaussian kernels, in scaled (unit-range) inputs; default 1 */
+	/**
+	 * rbf-*: shape parameter ε of multiquadric and Gaussian kernels, in scaled (unit-range) inputs;
+	 * default from the point spacing, 1/(0.815 × mean nearest-neighbour distance) (Hardy's rule); thin-plate: 1
+	 */
 	epsilon?: number;
 	/** rbf-*: degree of the polynomial tail: −1 (none), 0 or 1 (default 1) */
 	degree?: number;
@@ -53,6 +56,8 @@ export interface SurfaceStats {
 	condition?: number;
 	/** rbf-*: leave-one-out residuals (Rippa's closed form), in the data's order */
 	looResiduals?: Float64Array;
+	/** rbf-* without smoothing: the largest |s(x_i) − y_i| over the data (0 up to rounding for a sound solve) */
+	dataResidual?: number;
 	/** rbf-*: RMS of looResiduals */
 	looRms?: number;
 }
