@@ -2,10 +2,10 @@
  * The registry of grid methods (2–4 inputs on a full tensor grid): build a
  * fit by method name, or rebuild one from its fit file.
  */
-import { akimaSlopesInto } from './akimaSlopes';
+import { akimaSlopesAcross, akimaSlopesInto } from './akimaSlopes';
 import { SplineLineSolver } from './cubicSplineSlopes';
 import { FitError } from './fitError';
-import { pchipSlopesInto } from './pchip';
+import { pchipSlopesAcross, pchipSlopesInto } from './pchip';
 import { prepareGrid } from './prepareGrid';
 import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './tensorGrid';
 import type { GridMethod, SurfaceFitOptions } from './surfaceTypes';
@@ -25,16 +25,21 @@ export interface GridMethodInfo {
 function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
 	// one factored system per axis (every line of an input shares it)
 	const solvers = new Map<Float64Array, SplineLineSolver>();
-	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	const solverFor = (x: Float64Array) => {
 		let solver = solvers.get(x);
 		if (!solver) solvers.set(x, (solver = new SplineLineSolver(x, kind)));
-		solver.solveLines(y, yo, yStep, out, oo, os, oStep, count);
+		return solver;
 	};
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => solverFor(x).solveLines(y, yo, yStep, out, oo, os, oStep, count);
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => solverFor(x).solveAcross(data, base, iStride, lineStride, count, from, to);
+	return rule;
 }
 
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	let work = new Float64Array(0);
+	let cuts = new Float64Array(0);
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
 		for (let l = 0; l < count; l++) {
@@ -43,11 +48,26 @@ function akimaRule(): LineSlopeRule {
 			for (let i = 0; i < n; i++) out[o + os * i] = buf[2 * i];
 		}
 	};
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => {
+		const need = (x.length + 3) * count;
+		if (work.length < need) work = new Float64Array(need);
+		if (cuts.length < count) cuts = new Float64Array(count);
+		akimaSlopesAcross(x, data, base, iStride, lineStride, count, from, to, work, cuts);
+		return true;
+	};
+	return rule;
 }
 
-const pchipRule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
-	for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
-};
+function pchipRule(): LineSlopeRule {
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
+		for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
+	};
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => {
+		pchipSlopesAcross(x, data, base, iStride, lineStride, count, from, to);
+		return true;
+	};
+	return rule;
+}
 
 function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
 	const ext = options?.extrapolation ?? 'refuse';
@@ -82,7 +102,7 @@ export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', () => spl
 /** Akima's slopes along each input, tensor Hermite cells (C1). */
 export const gridAkima = cubicBuilder('grid-akima', akimaRule);
 /** PCHIP slopes along each input, tensor Hermite cells (C1). */
-export const gridPchip = cubicBuilder('grid-pchip', () => pchipRule);
+export const gridPchip = cubicBuilder('grid-pchip', pchipRule);
 
 const GRID_BUILDERS: Readonly<Record<GridMethod, GridBuilder>> = {
 	'grid-linear': gridLinear,
