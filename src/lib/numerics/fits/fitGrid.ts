@@ -95,14 +95,26 @@ export const gridLinear: GridBuilder = (axesIn, valuesIn, options) => {
 	const g = prepareGrid(axesIn, valuesIn, 'grid-linear', minPoints);
 	return new TensorGrid({ method: 'grid-linear', continuity, axes: g.axes, data: g.values, cubic: false, options: opts, notes: g.notes });
 };
+/**
+ * Each cubic grid method's rule for the knot slopes along one input (a new
+ * rule per build: rules keep per-axis scratch). Exported for the tests that
+ * hold the side-by-side sweeps to the one-line passes.
+ */
+export const GRID_SLOPE_RULES: Readonly<Record<Exclude<GridMethod, 'grid-linear'>, () => LineSlopeRule>> = Object.freeze({
+	'grid-cubic-natural': () => splineRule('natural'),
+	'grid-cubic-not-a-knot': () => splineRule('not-a-knot'),
+	'grid-akima': akimaRule,
+	'grid-pchip': pchipRule
+});
+
 /** Tensor-product natural cubic spline (C2). */
-export const gridCubicNatural = cubicBuilder('grid-cubic-natural', () => splineRule('natural'));
+export const gridCubicNatural = cubicBuilder('grid-cubic-natural', GRID_SLOPE_RULES['grid-cubic-natural']);
 /** Tensor-product not-a-knot cubic spline (C2; exact for products of cubics). */
-export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', () => splineRule('not-a-knot'));
+export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', GRID_SLOPE_RULES['grid-cubic-not-a-knot']);
 /** Akima's slopes along each input, tensor Hermite cells (C1). */
-export const gridAkima = cubicBuilder('grid-akima', akimaRule);
+export const gridAkima = cubicBuilder('grid-akima', GRID_SLOPE_RULES['grid-akima']);
 /** PCHIP slopes along each input, tensor Hermite cells (C1). */
-export const gridPchip = cubicBuilder('grid-pchip', pchipRule);
+export const gridPchip = cubicBuilder('grid-pchip', GRID_SLOPE_RULES['grid-pchip']);
 
 const GRID_BUILDERS: Readonly<Record<GridMethod, GridBuilder>> = {
 	'grid-linear': gridLinear,

@@ -446,6 +446,11 @@ export class TensorGrid implements SurfaceFit {
  * a subarray view per line costs more than the line's arithmetic), and the
  * result is scattered back transposed. Rules take many lines per call so the
  * spline can sweep two at once.
+ *
+ * A rule with a side-by-side sweep (rule.across) is given the lines in place
+ * instead (acrossFamily): no gather, no transpose, every line advanced one knot
+ * per step. The sweeps repeat the one-line arithmetic operation for operation
+ * (tests/unit/fits/gridAcross.test.ts holds them to the same bits).
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
