@@ -106,3 +106,65 @@ export function akimaSlopesInto(
 		c = d;
 	}
 }
+
+/**
+ * Original Akima's slopes (akimaSlopesInto with modified = false) for `count`
+ * lines side by side, in place in one array: line c's value i is
+ * data[base + c·lineStride + i·iStride + from], its slope goes to the same
+ * place with `to`. The extended secants m_{−2} … m_n of every line go to
+ * `work` (at least (n + 3)·count numbers, secant r − 2 of line c at
+ * work[r·count + c]); each line keeps its own tie threshold. The same
+ * operations as the one-line pass, so the same bits. Needs three knots or more.
+ */
+export function akimaSlopesAcross(
+	x: Float64Array,
+	data: Float64Array,
+	base: number,
+	iStride: number,
+	lineStride: number,
+	count: number,
+	from: number,
+	to: number,
+	work: Float64Array,
+	cuts: Float64Array
+): void {
+	const n = x.length;
+	for (let k = 0; k < n - 1; k++) {
+		const h = x[k + 1] - x[k];
+		const row = (k + 2) * count;
+		for (let c = 0, q = base + k * iStride + from; c < count; c++, q += lineStride) work[row + c] = (data[q + iStride] - data[q]) / h;
+	}
+	const r0 = 2 * count;
+	for (let c = 0; c < count; c++) {
+		const m0 = work[r0 + c];
+		const mm1 = 2 * m0 - work[r0 + count + c];
+		work[count + c] = mm1;
+		work[c] = 2 * mm1 - m0;
+		const mLast = work[n * count + c];
+		const mp1 = 2 * mLast - work[(n - 1) * count + c];
+		work[(n + 1) * count + c] = mp1;
+		work[(n + 2) * count + c] = 2 * mp1 - mLast;
+	}
+	cuts.fill(-Infinity, 0, count);
+	for (let i = 0; i < n; i++) {
+		const ra = i * count;
+		for (let c = 0; c < count; c++) {
+			const f12 = Math.abs(work[ra + 3 * count + c] - work[ra + 2 * count + c]) + Math.abs(work[ra + count + c] - work[ra + c]);
+			if (f12 > cuts[c]) cuts[c] = f12;
+		}
+	}
+	for (let c = 0; c < count; c++) cuts[c] = 1e-9 * cuts[c];
+	for (let i = 0; i < n; i++) {
+		const ra = i * count;
+		for (let c = 0, q = base + i * iStride + to; c < count; c++, q += lineStride) {
+			const a = work[ra + c];
+			const b = work[ra + count + c];
+			const cc = work[ra + 2 * count + c];
+			const d = work[ra + 3 * count + c];
+			const f1 = Math.abs(d - cc);
+			const f2 = Math.abs(b - a);
+			const f12 = f1 + f2;
+			data[q] = f12 > cuts[c] ? (f1 * b + f2 * cc) / f12 : 0.5 * (d + a);
+		}
+	}
+}

@@ -282,6 +282,60 @@ export class SplineLineSolver {
 		}
 	}
 
+	/**
+	 * `count` lines swept side by side, in place in one array: line c's value i
+	 * is data[base + c·lineStride + i·iStride + from] and its slope goes to the
+	 * same place with `to` for `from`. Each step of the sweep takes every line
+	 * once, so the lines' chains run independently (no waiting on one chain) and
+	 * no line is copied out. The arithmetic is solve's, operation for operation,
+	 * so the slopes are the same bits. Needs four knots or more (false
+	 * otherwise: the caller takes solveLines).
+	 */
+	solveAcross(data: Float64Array, base: number, iStride: number, lineStride: number, count: number, from: number, to: number): boolean {
+		const n = this.n;
+		if (n <= 3) return false;
+		const N = n - 1;
+		const { invH, wPrev, wHere, sub, inv, cp } = this;
+		const end = base + count * lineStride;
+		{
+			const i0 = invH[0];
+			const i1 = invH[1];
+			const a = wPrev[0];
+			const b = wHere[0];
+			const r = inv[0];
+			for (let q = base; q < end; q += lineStride) {
+				const y0 = data[q + from];
+				const y1 = data[q + iStride + from];
+				const y2 = data[q + 2 * iStride + from];
+				data[q + to] = (a * ((y1 - y0) * i0) + b * ((y2 - y1) * i1)) * r;
+			}
+		}
+		// row i (1 ≤ i ≤ N) uses m_{i−1} and m_i; row N's m_N does not exist: it uses m_{N−2}, m_{N−1}
+		for (let i = 1; i <= N; i++) {
+			const k = i < N ? i : N - 1;
+			const il = invH[k - 1];
+			const ir = invH[k];
+			const a = wPrev[i];
+			const b = wHere[i];
+			const c = sub[i];
+			const r = inv[i];
+			const row = base + i * iStride;
+			const yl0 = base + (k - 1) * iStride + from;
+			for (let q = row, p = yl0; q < end + (row - base); q += lineStride, p += lineStride) {
+				const yl = data[p];
+				const yc = data[p + iStride];
+				const yr = data[p + 2 * iStride];
+				data[q + to] = (a * ((yc - yl) * il) + b * ((yr - yc) * ir) - c * data[q - iStride + to]) * r;
+			}
+		}
+		for (let i = N - 1; i >= 0; i--) {
+			const c = cp[i];
+			const row = base + i * iStride + to;
+			for (let q = row, stop = row + count * lineStride; q < stop; q += lineStride) data[q] = data[q] - c * data[q + iStride];
+		}
+		return true;
+	}
+
 	/** Writes the knot slopes of the values y[yo + i] to out[oo + os·i]. */
 	solve(y: ArrayLike<number>, yo: number, out: Float64Array, oo: number, os = 1): void {
 		const n = this.n;

@@ -2,10 +2,10 @@
  * The registry of grid methods (2–4 inputs on a full tensor grid): build a
  * fit by method name, or rebuild one from its fit file.
  */
-import { akimaSlopesInto } from './akimaSlopes';
+import { akimaSlopesAcross, akimaSlopesInto } from './akimaSlopes';
 import { SplineLineSolver } from './cubicSplineSlopes';
 import { FitError } from './fitError';
-import { pchipSlopesInto } from './pchip';
+import { pchipSlopesAcross, pchipSlopesInto } from './pchip';
 import { prepareGrid } from './prepareGrid';
 import { TensorGrid, fillHermiteSlots, type LineSlopeRule } from './tensorGrid';
 import type { GridMethod, SurfaceFitOptions } from './surfaceTypes';
@@ -25,16 +25,21 @@ export interface GridMethodInfo {
 function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
 	// one factored system per axis (every line of an input shares it)
 	const solvers = new Map<Float64Array, SplineLineSolver>();
-	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	const solverFor = (x: Float64Array) => {
 		let solver = solvers.get(x);
 		if (!solver) solvers.set(x, (solver = new SplineLineSolver(x, kind)));
-		solver.solveLines(y, yo, yStep, out, oo, os, oStep, count);
+		return solver;
 	};
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => solverFor(x).solveLines(y, yo, yStep, out, oo, os, oStep, count);
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => solverFor(x).solveAcross(data, base, iStride, lineStride, count, from, to);
+	return rule;
 }
 
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	return (x, y, yo, yStep, out, oo, os, oStep, count) => {
+	let work = new Float64Array(0);
+	let cuts = new Float64Array(0);
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
 		for (let l = 0; l < count; l++) {
@@ -43,11 +48,26 @@ function akimaRule(): LineSlopeRule {
 			for (let i = 0; i < n; i++) out[o + os * i] = buf[2 * i];
 		}
 	};
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => {
+		const need = (x.length + 3) * count;
+		if (work.length < need) work = new Float64Array(need);
+		if (cuts.length < count) cuts = new Float64Array(count);
+		akimaSlopesAcross(x, data, base, iStride, lineStride, count, from, to, work, cuts);
+		return true;
+	};
+	return rule;
 }
 
-const pchipRule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
-	for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
-};
+function pchipRule(): LineSlopeRule {
+	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
+		for (let l = 0; l < count; l++) pchipSlopesInto(x, y, out, os, oo + l * oStep, yo + l * yStep);
+	};
+	rule.across = (x, data, base, iStride, lineStride, count, from, to) => {
+		pchipSlopesAcross(x, data, base, iStride, lineStride, count, from, to);
+		return true;
+	};
+	return rule;
+}
 
 function resolve(options: SurfaceFitOptions | undefined, label: string): SurfaceFitOptions {
 	const ext = options?.extrapolation ?? 'refuse';
@@ -75,14 +95,26 @@ export const gridLinear: GridBuilder = (axesIn, valuesIn, options) => {
 	const g = prepareGrid(axesIn, valuesIn, 'grid-linear', minPoints);
 	return new TensorGrid({ method: 'grid-linear', continuity, axes: g.axes, data: g.values, cubic: false, options: opts, notes: g.notes });
 };
+/**
+ * Each cubic grid method's rule for the knot slopes along one input (a new
+ * rule per build: rules keep per-axis scratch). Exported for the tests that
+ * hold the side-by-side sweeps to the one-line passes.
+ */
+export const GRID_SLOPE_RULES: Readonly<Record<Exclude<GridMethod, 'grid-linear'>, () => LineSlopeRule>> = Object.freeze({
+	'grid-cubic-natural': () => splineRule('natural'),
+	'grid-cubic-not-a-knot': () => splineRule('not-a-knot'),
+	'grid-akima': akimaRule,
+	'grid-pchip': pchipRule
+});
+
 /** Tensor-product natural cubic spline (C2). */
-export const gridCubicNatural = cubicBuilder('grid-cubic-natural', () => splineRule('natural'));
+export const gridCubicNatural = cubicBuilder('grid-cubic-natural', GRID_SLOPE_RULES['grid-cubic-natural']);
 /** Tensor-product not-a-knot cubic spline (C2; exact for products of cubics). */
-export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', () => splineRule('not-a-knot'));
+export const gridCubicNotAKnot = cubicBuilder('grid-cubic-not-a-knot', GRID_SLOPE_RULES['grid-cubic-not-a-knot']);
 /** Akima's slopes along each input, tensor Hermite cells (C1). */
-export const gridAkima = cubicBuilder('grid-akima', akimaRule);
+export const gridAkima = cubicBuilder('grid-akima', GRID_SLOPE_RULES['grid-akima']);
 /** PCHIP slopes along each input, tensor Hermite cells (C1). */
-export const gridPchip = cubicBuilder('grid-pchip', () => pchipRule);
+export const gridPchip = cubicBuilder('grid-pchip', GRID_SLOPE_RULES['grid-pchip']);
 
 const GRID_BUILDERS: Readonly<Record<GridMethod, GridBuilder>> = {
 	'grid-linear': gridLinear,

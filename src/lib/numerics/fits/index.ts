@@ -22,7 +22,7 @@ export { softenedLinear } from './softenedLinear';
 export type { GridMethod, ScatterMethod, SurfaceMethod, SurfaceFit, SurfaceFitOptions, SurfaceJet, SurfaceStats, SurfaceExtrapolation, HessianKind } from './surfaceTypes';
 export { TensorGrid, GRID_MAX_INPUTS, fillHermiteSlots, type LineSlopeRule } from './tensorGrid';
 export { prepareGrid, type PreparedGrid } from './prepareGrid';
-export { fitGrid, gridMethods, isGridMethod, gridLinear, gridCubicNatural, gridCubicNotAKnot, gridAkima, gridPchip, type GridBuilder, type GridMethodInfo } from './fitGrid';
+export { fitGrid, gridMethods, GRID_SLOPE_RULES, isGridMethod, gridLinear, gridCubicNatural, gridCubicNotAKnot, gridAkima, gridPchip, type GridBuilder, type GridMethodInfo } from './fitGrid';
 export { RadialBasis, fitScatter, isScatterMethod, RBF_MAX_INPUTS, RBF_CONDITION_WARNING, RBF_LOO_LIMIT, RBF_DATA_TOLERANCE } from './radialBasis';
 export { classifyTable, type TableShape } from './classifyTable';
 export { surfaceFromJSON, isSurfaceFitFile, SURFACE_REPRESENTATIONS } from './surfaceFile';

@@ -64,6 +64,53 @@ export function pchipSlopesInto(x: Float64Array, y: ArrayLike<number>, out: Floa
 	out[offset + stride * (n - 1)] = endSlope(hr, hPrev, mr, mPrev);
 }
 
+/**
+ * pchipSlopesInto for `count` lines side by side, in place in one array: line
+ * c's value i is data[base + c·lineStride + i·iStride + from], its slope goes to
+ * the same place with `to`. The same operations as the one-line pass, so the
+ * same bits; a step of the sweep takes every line once (the grid fits' lines).
+ */
+export function pchipSlopesAcross(x: Float64Array, data: Float64Array, base: number, iStride: number, lineStride: number, count: number, from: number, to: number): void {
+	const n = x.length;
+	const end = base + count * lineStride;
+	if (n === 2) {
+		const h = x[1] - x[0];
+		for (let q = base; q < end; q += lineStride) data[q + to] = data[q + iStride + to] = (data[q + iStride + from] - data[q + from]) / h;
+		return;
+	}
+	for (let i = 1; i < n - 1; i++) {
+		const hl = x[i] - x[i - 1];
+		const hr = x[i + 1] - x[i];
+		const w1 = 2 * hr + hl;
+		const w2 = hr + 2 * hl;
+		const sw = w1 + w2;
+		const row = base + i * iStride;
+		for (let q = row, stop = end + i * iStride; q < stop; q += lineStride) {
+			const yc = data[q + from];
+			const ml = (yc - data[q - iStride + from]) / hl;
+			const mr = (data[q + iStride + from] - yc) / hr;
+			let t = 0;
+			if (!(Math.sign(ml) !== Math.sign(mr) || ml === 0 || mr === 0)) t = 1.0 / ((w1 / ml + w2 / mr) / sw);
+			data[q + to] = t;
+		}
+	}
+	const h0 = x[1] - x[0];
+	const h1 = x[2] - x[1];
+	const hr = x[n - 1] - x[n - 2];
+	const hPrev = x[n - 2] - x[n - 3];
+	const last = (n - 1) * iStride;
+	for (let q = base; q < end; q += lineStride) {
+		const y0 = data[q + from];
+		const y1 = data[q + iStride + from];
+		const y2 = data[q + 2 * iStride + from];
+		data[q + to] = endSlope(h0, x[2] - x[1], (y1 - y0) / h0, (y2 - y1) / h1);
+		const ya = data[q + last - 2 * iStride + from];
+		const yb = data[q + last - iStride + from];
+		const yc = data[q + last + from];
+		data[q + last + to] = endSlope(hr, hPrev, (yc - yb) / hr, (yb - ya) / hPrev);
+	}
+}
+
 function endSlope(h0: number, h1: number, m0: number, m1: number): number {
 	const d = ((2 * h0 + h1) * m0 - h0 * m1) / (h0 + h1);
 	if (Math.sign(d) !== Math.sign(m0)) return 0;

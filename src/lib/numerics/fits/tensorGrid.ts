@@ -34,7 +34,15 @@ export const GRID_MAX_INPUTS = 4;
  * Knot slopes of `count` grid lines of one input (x strictly increasing): line
  * l's values are y[yo + l·yStep + i], its slopes t_i go to out[oo + l·oStep + os·i].
  */
-export type LineSlopeRule = (x: Float64Array, y: Float64Array, yo: number, yStep: number, out: Float64Array, oo: number, os: number, oStep: number, count: number) => void;
+export type LineSlopeRule = ((x: Float64Array, y: Float64Array, yo: number, yStep: number, out: Float64Array, oo: number, os: number, oStep: number, count: number) => void) & {
+	/**
+	 * Optional: sweep `count` lines side by side in place in the node data (line
+	 * c's value i at data[base + c·lineStride + i·iStride + from], its slope at
+	 * the same place with `to`). Returns false where it does not apply (the
+	 * call above is then used).
+	 */
+	across?: (x: Float64Array, data: Float64Array, base: number, iStride: number, lineStride: number, count: number, from: number, to: number) => boolean;
+};
 
 interface TensorGridInit {
 	method: GridMethod;
@@ -438,6 +446,11 @@ export class TensorGrid implements SurfaceFit {
  * a subarray view per line costs more than the line's arithmetic), and the
  * result is scattered back transposed. Rules take many lines per call so the
  * spline can sweep two at once.
+ *
+ * A rule with a side-by-side sweep (rule.across) is given the lines in place
+ * instead (acrossFamily): no gather, no transpose, every line advanced one knot
+ * per step. The sweeps repeat the one-line arithmetic operation for operation
+ * (tests/unit/fits/gridAcross.test.ts holds them to the same bits).
  */
 export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Array, rule: LineSlopeRule): void {
 	const d = axes.length;
@@ -462,6 +475,7 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 		const n = sizes[k];
 		const inner = strides[k];
 		const x = axes[k];
+		if (rule.across && acrossFamily(rule.across, x, data, total, slots, n, inner, from, S)) continue;
 		if (inner === 1) {
 			for (let o = 0; o < total; o += LINES * n) {
 				const count = Math.min(LINES, (total - o) / n);
@@ -477,6 +491,37 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
 			moveTransposed(data, o, slots, S, n, inner, tout, false);
 		}
 	}
+}
+
+/**
+ * One family of lines (input k: n knots, node stride `inner`) by the rule's
+ * side-by-side sweep. Lines of an earlier input: the lines of one block of
+ * n × inner nodes sit next to each other (line stride one node), so a step
+ * of the sweep reads a contiguous run. Lines of the last input: ACROSS lines
+ * at a time (line stride n nodes), whose step touches one cache line per line
+ * and whose next step reuses it.
+ */
+const ACROSS = 32;
+function acrossFamily(
+	across: NonNullable<LineSlopeRule['across']>,
+	x: Float64Array,
+	data: Float64Array,
+	total: number,
+	slots: number,
+	n: number,
+	inner: number,
+	from: number,
+	to: number
+): boolean {
+	if (inner === 1) {
+		for (let o = 0; o < total; o += ACROSS * n) {
+			if (!across(x, data, o * slots, slots, n * slots, Math.min(ACROSS, (total - o) / n), from, to)) return false;
+		}
+		return true;
+	}
+	const run = n * inner;
+	for (let o = 0; o < total; o += run) if (!across(x, data, o * slots, inner * slots, slots, inner, from, to)) return false;
+	return true;
 }
 
 /**
