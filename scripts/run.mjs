@@ -2,6 +2,7 @@
 // One entry point for `npm start`, `npm run dev`, `npm test` and `npm run worker`.
 // Plain JavaScript on purpose: it runs before dependencies are installed.
 import { spawn, spawnSync } from 'node:child_process';
+import { allocatorEnv } from './allocator.mjs';
 import { existsSync, statSync, readdirSync, mkdtempSync, rmSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import os from 'node:os';
@@ -55,7 +56,8 @@ function run(cmd, args, env = {}) {
 }
 
 function startChild(cmd, args, env = {}, name = cmd) {
-	const child = spawn(cmd, args, { stdio: 'inherit', env: { ...process.env, ...env } });
+	// the server and the worker run with the allocator setting of scripts/allocator.mjs
+	const child = spawn(cmd, args, { stdio: 'inherit', env: { ...process.env, ...allocatorEnv(process.env), ...env } });
 	children.add(child);
 	child.on('exit', (code, signal) => {
 		children.delete(child);

@@ -112,9 +112,12 @@ export function akimaSlopesInto(
  * lines side by side, in place in one array: line c's value i is
  * data[base + c·lineStride + i·iStride + from], its slope goes to the same
  * place with `to`. The extended secants m_{−2} … m_n of every line go to
- * `work` (at least (n + 3)·count numbers, secant r − 2 of line c at
- * work[r·count + c]); each line keeps its own tie threshold. The same
- * operations as the one-line pass, so the same bits. Needs three knots or more.
+ * `work` (secant r − 2 of line c at work[r·count + c]) and their differences
+ * W_r = |m_{r−1} − m_{r−2}| after them (W_r at work[(n + 3 + r)·count + c]), so
+ * `work` needs at least (2n + 5)·count numbers; each line keeps its own tie
+ * threshold (in `cuts`). Slope i takes f1 = |m_{i+1} − m_i| = W_{i+2} and
+ * f2 = |m_{i−1} − m_{i−2}| = W_i: the same numbers, added in the same order,
+ * as the one-line pass, so the same bits. Needs three knots or more.
  */
 export function akimaSlopesAcross(
 	x: Float64Array,
@@ -145,26 +148,32 @@ export function akimaSlopesAcross(
 		work[(n + 1) * count + c] = mp1;
 		work[(n + 2) * count + c] = 2 * mp1 - mLast;
 	}
+	// W_r for r = 0 … n + 1, and the threshold from max_i (W_{i+2} + W_i)
+	const wBase = (n + 3) * count;
 	cuts.fill(-Infinity, 0, count);
-	for (let i = 0; i < n; i++) {
-		const ra = i * count;
+	for (let r = 0; r <= n + 1; r++) {
+		const ra = r * count;
+		const wa = wBase + ra;
+		if (r < 2) {
+			for (let c = 0; c < count; c++) work[wa + c] = Math.abs(work[ra + count + c] - work[ra + c]);
+			continue;
+		}
 		for (let c = 0; c < count; c++) {
-			const f12 = Math.abs(work[ra + 3 * count + c] - work[ra + 2 * count + c]) + Math.abs(work[ra + count + c] - work[ra + c]);
+			const w = Math.abs(work[ra + count + c] - work[ra + c]);
+			work[wa + c] = w;
+			const f12 = w + work[wa - 2 * count + c];
 			if (f12 > cuts[c]) cuts[c] = f12;
 		}
 	}
 	for (let c = 0; c < count; c++) cuts[c] = 1e-9 * cuts[c];
 	for (let i = 0; i < n; i++) {
 		const ra = i * count;
+		const wa = wBase + ra;
 		for (let c = 0, q = base + i * iStride + to; c < count; c++, q += lineStride) {
-			const a = work[ra + c];
-			const b = work[ra + count + c];
-			const cc = work[ra + 2 * count + c];
-			const d = work[ra + 3 * count + c];
-			const f1 = Math.abs(d - cc);
-			const f2 = Math.abs(b - a);
+			const f1 = work[wa + 2 * count + c];
+			const f2 = work[wa + c];
 			const f12 = f1 + f2;
-			data[q] = f12 > cuts[c] ? (f1 * b + f2 * cc) / f12 : 0.5 * (d + a);
+			data[q] = f12 > cuts[c] ? (f1 * work[ra + count + c] + f2 * work[ra + 2 * count + c]) / f12 : 0.5 * (work[ra + 3 * count + c] + work[ra + c]);
 		}
 	}
 }

@@ -35,10 +35,13 @@ function splineRule(kind: 'natural' | 'not-a-knot'): LineSlopeRule {
 	return rule;
 }
 
+// the side-by-side Akima sweep's secants and tie thresholds: one scratch for every build (builds run one
+// at a time on a thread), kept so that a build does not fault in fresh pages for it
+let akimaWork = new Float64Array(0);
+let akimaCuts = new Float64Array(0);
+
 function akimaRule(): LineSlopeRule {
 	let buf = new Float64Array(0);
-	let work = new Float64Array(0);
-	let cuts = new Float64Array(0);
 	const rule: LineSlopeRule = (x, y, yo, yStep, out, oo, os, oStep, count) => {
 		const n = x.length;
 		if (buf.length < 2 * n) buf = new Float64Array(2 * n);
@@ -49,10 +52,10 @@ function akimaRule(): LineSlopeRule {
 		}
 	};
 	rule.across = (x, data, base, iStride, lineStride, count, from, to) => {
-		const need = (x.length + 3) * count;
-		if (work.length < need) work = new Float64Array(need);
-		if (cuts.length < count) cuts = new Float64Array(count);
-		akimaSlopesAcross(x, data, base, iStride, lineStride, count, from, to, work, cuts);
+		const need = (2 * x.length + 5) * count;
+		if (akimaWork.length < need) akimaWork = new Float64Array(need);
+		if (akimaCuts.length < count) akimaCuts = new Float64Array(count);
+		akimaSlopesAcross(x, data, base, iStride, lineStride, count, from, to, akimaWork, akimaCuts);
 		return true;
 	};
 	return rule;

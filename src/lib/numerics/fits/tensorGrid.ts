@@ -502,6 +502,7 @@ export function fillHermiteSlots(axes: readonly Float64Array[], data: Float64Arr
  * and whose next step reuses it.
  */
 const ACROSS = 32;
+const ACROSS_RUN = 64;
 function acrossFamily(
 	across: NonNullable<LineSlopeRule['across']>,
 	x: Float64Array,
@@ -519,8 +520,11 @@ function acrossFamily(
 		}
 		return true;
 	}
+	// a block's inner lines ACROSS_RUN at a time: a rule's per-line scratch stays small (Akima: (n + 3) per line)
 	const run = n * inner;
-	for (let o = 0; o < total; o += run) if (!across(x, data, o * slots, inner * slots, slots, inner, from, to)) return false;
+	for (let o = 0; o < total; o += run) {
+		for (let c = 0; c < inner; c += ACROSS_RUN) if (!across(x, data, (o + c) * slots, inner * slots, slots, Math.min(ACROSS_RUN, inner - c), from, to)) return false;
+	}
 	return true;
 }
 
