@@ -132,32 +132,52 @@ export function akimaSlopesAcross(
 	cuts: Float64Array
 ): void {
 	const n = x.length;
-	for (let k = 0; k < n - 1; k++) {
+	const wBase = (n + 3) * count;
+	cuts.fill(-Infinity, 0, count);
+	// one pass: secant k (row k + 2), then W_{k+1} = |m_k − m_{k−1}| and the threshold's f12 = W_{k+1} + W_{k−1};
+	// the first two secants come first, since m_{−2}, m_{−1} (rows 0, 1) and so W_0, W_1, W_2 need them
+	for (let k = 0; k < 2; k++) {
 		const h = x[k + 1] - x[k];
 		const row = (k + 2) * count;
 		for (let c = 0, q = base + k * iStride + from; c < count; c++, q += lineStride) work[row + c] = (data[q + iStride] - data[q]) / h;
 	}
-	const r0 = 2 * count;
 	for (let c = 0; c < count; c++) {
-		const m0 = work[r0 + c];
-		const mm1 = 2 * m0 - work[r0 + count + c];
+		const m0 = work[2 * count + c];
+		const mm1 = 2 * m0 - work[3 * count + c];
 		work[count + c] = mm1;
-		work[c] = 2 * mm1 - m0;
+		const mm2 = 2 * mm1 - m0;
+		work[c] = mm2;
+		const w0 = Math.abs(mm1 - mm2);
+		const w2 = Math.abs(work[3 * count + c] - m0);
+		work[wBase + c] = w0;
+		work[wBase + count + c] = Math.abs(m0 - mm1);
+		work[wBase + 2 * count + c] = w2;
+		const f12 = w2 + w0;
+		if (f12 > cuts[c]) cuts[c] = f12;
+	}
+	for (let k = 2; k < n - 1; k++) {
+		const h = x[k + 1] - x[k];
+		const row = (k + 2) * count;
+		const wr = wBase + (k + 1) * count;
+		for (let c = 0, q = base + k * iStride + from; c < count; c++, q += lineStride) {
+			const m = (data[q + iStride] - data[q]) / h;
+			work[row + c] = m;
+			const w = Math.abs(m - work[row - count + c]);
+			work[wr + c] = w;
+			const f12 = w + work[wr - 2 * count + c];
+			if (f12 > cuts[c]) cuts[c] = f12;
+		}
+	}
+	// m_{n−1}, m_n (rows n + 1, n + 2) and W_r for the rows not reached yet (r = max(3, n) … n + 1)
+	for (let c = 0; c < count; c++) {
 		const mLast = work[n * count + c];
 		const mp1 = 2 * mLast - work[(n - 1) * count + c];
 		work[(n + 1) * count + c] = mp1;
 		work[(n + 2) * count + c] = 2 * mp1 - mLast;
 	}
-	// W_r for r = 0 … n + 1, and the threshold from max_i (W_{i+2} + W_i)
-	const wBase = (n + 3) * count;
-	cuts.fill(-Infinity, 0, count);
-	for (let r = 0; r <= n + 1; r++) {
+	for (let r = Math.max(3, n); r <= n + 1; r++) {
 		const ra = r * count;
 		const wa = wBase + ra;
-		if (r < 2) {
-			for (let c = 0; c < count; c++) work[wa + c] = Math.abs(work[ra + count + c] - work[ra + c]);
-			continue;
-		}
 		for (let c = 0; c < count; c++) {
 			const w = Math.abs(work[ra + count + c] - work[ra + c]);
 			work[wa + c] = w;
