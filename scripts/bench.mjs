@@ -3,8 +3,8 @@
  * Runs benchmark files (tests/bench/<name>.bench.ts) one after another, each in
  * its own tsx process, with the same glibc allocator setting as the server
  * (scripts/allocator.mjs: transparent huge pages for malloc'd memory). The
- * SciPy side of a bench is a child of that process and inherits the setting,
- * so both sides allocate alike. BENCH_MALLOC=default runs with glibc's
+ * SciPy side of a bench runs with glibc's defaults (tests/reference/scipy.ts
+ * drops the setting: it measured slower for SciPy). BENCH_MALLOC=default runs with glibc's
  * defaults instead (to measure what the setting is worth). Node runs with
  * --expose-gc so that a bench can collect its warm-up's garbage before timing.
  *

@@ -40,7 +40,12 @@ export function runScipy<T = unknown>(code: string, data: unknown = null, timeou
 		'    return o',
 		'sys.stdout.write(json.dumps(_clean(out)))'
 	].join('\n');
+	// SciPy runs with glibc's default allocator: the huge-page setting the benches give our side
+	// (scripts/allocator.mjs) measured slower for SciPy here (RectBivariateSpline.ev 54 → 78 ms), and the
+	// reference should be measured at its best, not handicapped
+	const { GLIBC_TUNABLES: _ours, ...env } = process.env;
 	const r = spawnSync(PYTHON, ['-c', `${prelude}\n${code}\n${epilogue}`], {
+		env,
 		input: JSON.stringify(data),
 		encoding: 'utf8',
 		timeout: timeoutMs,
