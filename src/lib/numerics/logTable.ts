@@ -7,10 +7,11 @@
  *   ln x = k·ln 2 − ln(1/c_j) + ln(1 + r),   r = m·(1/c_j) − 1,  0 ≤ r < 1/256
  * (to rounding), with ln(1 + r) from its Taylor series through r⁷ (the next
  * term is below 0.01ε·r). With c_0 = 1 the result on [1, 1 + 1/256) is as
- * accurate relative to itself as a log1p, and ln 1 = 0 exactly. The exponent and the table index are read from the IEEE 754 bits
- * of the whole batch (one Uint32 view), which is what makes this cheaper than
- * Math.log per element: the hot loop of a thin-plate sum spends most of its
- * time in the library call.
+ * accurate relative to itself as a log1p, and ln 1 = 0 exactly. The exponent
+ * and the table index are read from the IEEE 754 bits of the whole batch (one
+ * Uint32 view), which is what makes this cheaper than Math.log per element:
+ * the hot loop of a thin-plate sum spends most of its time in the library
+ * call.
  *
  * Accuracy (tests/unit/fits/logTable.test.ts, against Math.log over the
  * whole range of doubles): the result is ln(x·(1 + δ))·(1 + η) with
